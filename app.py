@@ -1,0 +1,15 @@
+"""liftcore dashboard: routes to the pages in views/ (``streamlit run app.py``)."""
+
+from pathlib import Path
+
+import streamlit as st
+
+from views import PAGES, common
+
+st.set_page_config(page_title="liftcore", page_icon=":material/cyclone:", layout="wide")
+here = Path(__file__).parent
+pages = [st.Page(str(here / f), title=t, url_path=u, icon=i, default=(u == "overview"))
+         for f, t, u, i in PAGES if (here / f).exists()]
+nav = st.navigation(pages)
+common.sidebar_chrome()
+nav.run()

@@ -1,0 +1,122 @@
+"""``python -m liftcore <command> ... [--json]``.
+
+Each command lives in its own module under ``liftcore.cli`` with two functions::
+
+    def add_parser(subparsers) -> argparse.ArgumentParser
+    def execute(args, progress) -> tuple[dict, str]   # (JSON-able dict, human-readable text)
+
+Bad input exits with status 2 and one line on stderr naming the field, the value and the allowed
+range; never a traceback. Progress of long work goes to stderr, never into ``--json`` output.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import json
+import math
+import sys
+
+from liftcore.errors import InputError
+
+#: command name -> module under liftcore.cli
+COMMANDS = ("air", "flow", "rotor", "voyage", "flight", "run")
+
+
+class UsageError(Exception):
+    """Raised by the parser instead of printing a usage block and exiting."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message):  # one line, exit status 2 (handled in main)
+        raise UsageError(f"{self.prog}: {message}")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="liftcore", description="Lift, drag, thrust and power of spinning "
+                     "cylinders and spheres.")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+    for name in COMMANDS:
+        try:
+            mod = importlib.import_module(f"liftcore.cli.{name}")
+        except ModuleNotFoundError as exc:
+            if exc.name == f"liftcore.cli.{name}":
+                continue  # command not built yet
+            raise
+        p = mod.add_parser(sub)
+        p.set_defaults(_execute=mod.execute)
+    return parser
+
+
+def add_json_flag(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--json", action="store_true", help="print machine-readable JSON on stdout")
+
+
+class Progress:
+    """A one-line progress indicator on stderr: ``progress(fraction, text)``."""
+
+    def __init__(self, stream=None):
+        self.stream = stream or sys.stderr
+        self._last = -1
+        self.used = False
+
+    def __call__(self, fraction: float, text: str = "") -> None:
+        pct = int(round(100 * max(0.0, min(1.0, fraction))))
+        if pct == self._last:
+            return
+        self._last = pct
+        self.used = True
+        self.stream.write(f"\r{text[:60]:<60} {pct:3d} %")
+        if pct >= 100:
+            self.stream.write("\n")
+        self.stream.flush()
+
+    def close(self) -> None:
+        if self.used and self._last < 100:
+            self.stream.write("\n")
+            self.stream.flush()
+
+
+def _clean_json(obj):
+    """Replace NaN/inf by None so the output is strict JSON."""
+    if isinstance(obj, float):
+        return obj if math.isfinite(obj) else None
+    if isinstance(obj, dict):
+        return {k: _clean_json(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_clean_json(v) for v in obj]
+    if hasattr(obj, "tolist"):
+        return _clean_json(obj.tolist())
+    if hasattr(obj, "item"):
+        return _clean_json(obj.item())
+    return obj
+
+
+def main(argv=None) -> int:
+    progress = Progress()
+    try:
+        parser = build_parser()
+        args = parser.parse_args(argv)
+        data, text = args._execute(args, progress)
+    except UsageError as exc:
+        print(str(exc).replace("\n", " "), file=sys.stderr)
+        return 2
+    except InputError as exc:
+        progress.close()
+        print(f"liftcore: {exc}", file=sys.stderr)
+        return 2
+    except (FileNotFoundError, IsADirectoryError, PermissionError) as exc:
+        progress.close()
+        print(f"liftcore: cannot read {exc.filename}: {exc.strerror}", file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        progress.close()
+        print("liftcore: interrupted", file=sys.stderr)
+        return 130
+    progress.close()
+    if getattr(args, "json", False):
+        print(json.dumps(_clean_json(data), indent=2, ensure_ascii=False))
+    else:
+        print(text)
+    return 0

@@ -1,0 +1,20 @@
+"""Every page renders in a real browser with no exception shown."""
+
+import pytest
+
+from tests.browser.conftest import wait_for_app
+from views import PAGES
+
+
+@pytest.mark.parametrize("url_path", [p[2] for p in PAGES])
+def test_page_renders_without_exception(app_url, browser, shots_dir, url_path):
+    page = browser.new_page(viewport={"width": 1600, "height": 1000})
+    try:
+        page.goto(f"{app_url}/{url_path}")
+        wait_for_app(page)
+        exceptions = page.locator('[data-testid="stException"]')
+        assert exceptions.count() == 0, exceptions.first.inner_text()
+        page.screenshot(path=str(shots_dir / f"{url_path}.png"), full_page=True)
+        assert page.locator("h1").count() >= 1
+    finally:
+        page.close()
