@@ -283,9 +283,14 @@ class Loop:
     dsx_m: np.ndarray
     dsy_m: np.ndarray
 
-    def outline(self) -> tuple[np.ndarray, np.ndarray]:
-        """Closed polyline for drawing. [m]"""
-        return np.append(self.x_m, self.x_m[0]), np.append(self.y_m, self.y_m[0])
+    def outline(self, points: int = 181) -> tuple[np.ndarray, np.ndarray]:
+        """Closed polyline for drawing (a few hundred points at most). [m]"""
+        cx, cy = self.centre_m
+        if self.shape == "circle":
+            t = np.linspace(0.0, 2.0 * math.pi, points)
+            return cx + self.half_width_m * np.cos(t), cy + self.half_height_m * np.sin(t)
+        a, b = self.half_width_m, self.half_height_m
+        return cx + np.array([-a, a, a, -a, -a]), cy + np.array([b, b, -b, -b, b])
 
 
 def circle_loop(centre_m, radius_m: float, step_m: float) -> Loop:
@@ -427,6 +432,7 @@ class CirculationResult:
     """
 
     loop_shape: str
+    rectangle_aspect: float
     loop_sizes_m: tuple
     loop_labels: tuple
     circulations_m2_s: tuple
@@ -575,7 +581,7 @@ def circulation_from_field(field: VelocityField, body_centre_m, body_radius_m: f
             f"({2 * rb:.3g} m) of the centre, where the viscous layer may still be cut; "
             "prefer larger loops.", "circulation_m2_s"))
     return CirculationResult(
-        loop_shape=shape, loop_sizes_m=tuple(float(s) for s in sizes),
+        loop_shape=shape, rectangle_aspect=asp, loop_sizes_m=tuple(float(s) for s in sizes),
         loop_labels=tuple(lp.label for lp in loops),
         circulations_m2_s=tuple(float(g) for g in gammas), settled=tuple(bool(s) for s in settled),
         circulation_m2_s=gamma, circulation_spread_m2_s=spread, circulation_std_m2_s=std,
