@@ -521,7 +521,7 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
     if record:
         records = _split_records(n, rec_t, rec_y, rec_f, rec_id)
     return BatchResult(
-        carry_m=out["x"], lateral_m=-out["y"], flight_time_s=out["t"], peak_height_m=peak,
+        carry_m=out["x"], lateral_m=-out["y"] + 0.0, flight_time_s=out["t"], peak_height_m=peak,
         descent_angle_deg=np.degrees(np.arctan2(-out["vz"], horiz)),
         landing_speed_m_s=np.sqrt(horiz ** 2 + out["vz"] ** 2),
         landing_spin_rpm=out["w"] / RPM_RAD_S, landed=landed, s_min=smin, s_max=smax,
@@ -625,7 +625,7 @@ def _sample_path(setup: FlightSetup, knots, n_samples: int = 160) -> dict:
         V = ground_speed
         S = setup.ball.radius_m * Y[6] / np.maximum(V, 1e-9)
         Re = CD = CL = np.zeros_like(t)
-    return {"t_s": t, "x_m": Y[0], "lateral_m": -Y[1], "z_m": Y[2], "speed_m_s": ground_speed,
+    return {"t_s": t, "x_m": Y[0], "lateral_m": -Y[1] + 0.0, "z_m": Y[2], "speed_m_s": ground_speed,
             "air_speed_m_s": V, "spin_rpm": Y[6] / RPM_RAD_S, "spin_parameter": S,
             "reynolds": Re, "cd": CD, "cl": CL}
 
@@ -1200,3 +1200,51 @@ def make_demo_tracks(setup: FlightSetup, launches: list[Launch], cd: float, cl: 
                                   "x": np.round(S[0] + noise[0], 4), "y": np.round(-S[1] + noise[1], 4),
                                   "z": np.round(S[2] + noise[2], 4)}))
     return pd.concat(rows, ignore_index=True)
+
+
+# ----------------------------------------------------------------------------- invented demo tracks
+#: How ``liftcore/data/demo_tracks_invented.csv`` was made (invented; regenerate with
+#: :func:`write_demo_tracks`): a baseball at sea level (ISA), backspin 1800 rpm, constant
+#: CD 0.33 and CL 0.21, three launches, positions at 60 Hz for 1.5 s with 2 cm Gaussian noise.
+DEMO_TRACKS = {
+    "ball": "baseball", "altitude_m": 0.0, "spin_rpm": 1800.0, "spin_axis_deg": 0.0, "cd": 0.33,
+    "cl": 0.21, "rate_hz": 60.0, "duration_s": 1.5, "noise_m": 0.02, "seed": 7,
+    "launches": ((36.0, 18.0, -2.0, 1.0), (40.0, 24.0, 0.0, 1.0), (44.0, 30.0, 3.0, 0.9)),
+}
+DEMO_TRACKS_FILE = "demo_tracks_invented.csv"
+
+
+def demo_tracks_setup() -> FlightSetup:
+    """The setup the invented demo tracks were generated with (constant-coefficient model)."""
+    from liftcore.air import air_state
+
+    air = air_state(DEMO_TRACKS["altitude_m"])
+    return make_setup(DEMO_TRACKS["ball"], "constant", density_kg_m3=air.density_kg_m3,
+                      kinematic_viscosity_m2_s=air.kinematic_viscosity_m2_s,
+                      speed_of_sound_m_s=air.speed_of_sound_m_s)
+
+
+def _demo_launches():
+    d = DEMO_TRACKS
+    return [Launch(v, el, az, d["spin_rpm"], d["spin_axis_deg"], 0.0, h) for v, el, az, h in d["launches"]]
+
+
+def write_demo_tracks(path) -> None:
+    """Regenerate the invented demo tracks file (header comments say it is invented)."""
+    d = DEMO_TRACKS
+    df = make_demo_tracks(demo_tracks_setup(), _demo_launches(), d["cd"], d["cl"], d["rate_hz"],
+                          d["duration_s"], d["noise_m"], d["seed"])
+    head = ("# INVENTED demo data for liftcore (not measurements): tracked positions of three baseball\n"
+            "# flights generated from a known model (sea-level ISA air, backspin 1800 rpm, constant\n"
+            f"# CD {d['cd']} and CL {d['cl']}) plus 2 cm Gaussian noise. Columns: flight label, t [s],\n"
+            "# x downrange [m], y drift to the right [m], z height [m].\n")
+    with open(path, "w", encoding="utf-8") as fh:
+        fh.write(head)
+        df.to_csv(fh, index=False)
+
+
+def demo_tracks():
+    """The invented demo tracks shipped with liftcore, as a checked DataFrame."""
+    from pathlib import Path
+
+    return read_tracks(Path(__file__).parent / "data" / DEMO_TRACKS_FILE)
