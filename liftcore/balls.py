@@ -402,8 +402,9 @@ class CoefficientModel:
 
 
 def _constant(S, Re, V, rpm):
-    one = np.ones_like(np.asarray(S, dtype=float))
-    return one, one
+    """CD = 1 and CL = 1 while the ball spins (scaled by the setup's constants); no spin, no lift."""
+    s = np.asarray(S, dtype=float)
+    return np.ones_like(s), (s > 0.0).astype(float)
 
 
 MODELS: dict[str, CoefficientModel] = {
