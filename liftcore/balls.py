@@ -485,9 +485,9 @@ def ball_table() -> list[dict]:
     """Rows describing every ball (for pages and documentation)."""
     rows = []
     for b in BALLS.values():
-        rows.append({"ball": b.name, "key": b.key, "diameter_mm": 1000 * b.diameter_m,
-                     "mass_g": 1000 * b.mass_kg, "rule": b.rule,
-                     "default_model": MODELS[b.model].label(), "spin_decay": b.spin_decay_source})
+        rows.append({"ball": b.name, "key": b.key, "diameter_m": b.diameter_m, "mass_kg": b.mass_kg,
+                     "rule": b.rule, "default model": MODELS[b.model].label(),
+                     "spin decay": b.spin_decay_source})
     return rows
 
 

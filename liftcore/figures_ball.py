@@ -41,8 +41,11 @@ def trajectory_3d(flights, system: str = "SI") -> go.Figure:
     fig.update_layout(scene=dict(
         xaxis_title=_lbl("Downrange", "distance", system),
         yaxis_title=_lbl("Drift, right +", "distance", system),
-        zaxis_title=_lbl("Height", "length", system), aspectmode="data",
-        camera=dict(eye=dict(x=-1.4, y=-1.6, z=0.8))),
+        zaxis_title=_lbl("Height", "length", system), aspectmode="manual",
+        aspectratio=dict(x=2.4, y=1.0, z=0.8),
+        # seen from behind and to the left of the launch point; drift to the right reads rightward
+        yaxis=dict(autorange="reversed"),
+        camera=dict(eye=dict(x=-1.6, y=-2.2, z=1.1), center=dict(x=0.1, y=0, z=-0.15))),
         margin=dict(l=0, r=0, t=60, b=0))
     return fig
 
@@ -112,7 +115,7 @@ def coefficient_curves(model, flight, system: str = "SI") -> go.Figure:
     lo, hi = model.s_range
     if np.isfinite(hi):
         fig.add_vrect(x0=lo, x1=hi, fillcolor="#009E73", opacity=0.08, line_width=0,
-                      annotation_text="model's S range", annotation_position="top left")
+                      annotation_text="model's S range", annotation_position="bottom left")
     return fig
 
 
