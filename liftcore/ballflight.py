@@ -78,7 +78,7 @@ class Wind:
     def velocity_direction(self) -> tuple[float, float]:
         """Unit vector (x, y) the wind blows toward, in the internal frame (y to the left)."""
         phi = math.radians(self.from_deg)
-        return -math.cos(phi), math.sin(phi)
+        return -float(_cos(phi)), float(_sin(phi))
 
 
 WIND_PROFILES = ("uniform", "power_law")
@@ -193,6 +193,17 @@ def _check_arr(name, arr, unit, lo, hi):
         check_number(f"{name} (flight {i + 1})", float(arr.ravel()[i]), unit, low=lo, high=hi)
 
 
+def _sin(a):
+    """sin with round-off below 1e-12 set to zero (so 180 deg gives exactly no sideways part)."""
+    s = np.sin(a)
+    return np.where(np.abs(s) < 1e-12, 0.0, s)
+
+
+def _cos(a):
+    c = np.cos(a)
+    return np.where(np.abs(c) < 1e-12, 0.0, c)
+
+
 def launch_vectors(launch: Launch):
     """Initial state (7, n) [x, y, z, vx, vy, vz, omega] and spin-axis unit vectors (3, n).
 
@@ -204,12 +215,12 @@ def launch_vectors(launch: Launch):
     a = launch.arrays()
     el, az = np.radians(a["elevation_deg"]), np.radians(a["azimuth_deg"])
     tilt, rifle = np.radians(a["spin_axis_deg"]), np.radians(a["rifle_deg"])
-    hx, hy = np.cos(az), -np.sin(az)
-    ev = np.array([np.cos(el) * hx, np.cos(el) * hy, np.sin(el)])
+    hx, hy = _cos(az), -_sin(az)
+    ev = np.array([_cos(el) * hx, _cos(el) * hy, _sin(el)])
     el_ = np.array([-hy, hx, np.zeros_like(hx)])  # z x h
     eu = np.cross(ev.T, el_.T).T
-    operp = -np.cos(tilt) * el_ - np.sin(tilt) * eu
-    axis = np.cos(rifle) * operp + np.sin(rifle) * ev
+    operp = -_cos(tilt) * el_ - _sin(tilt) * eu
+    axis = _cos(rifle) * operp + _sin(rifle) * ev
     v = a["speed_m_s"]
     n = v.size
     y0 = np.empty((7, n))
@@ -554,7 +565,7 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
         records = _split_records(n, rec_t, rec_y, rec_f, rec_id)
     return BatchResult(
         carry_m=out["x"], lateral_m=-out["y"] + 0.0, flight_time_s=out["t"], peak_height_m=peak,
-        descent_angle_deg=np.degrees(np.arctan2(-out["vz"], horiz)),
+        descent_angle_deg=np.degrees(np.arctan2(-out["vz"], horiz)) + 0.0,
         landing_speed_m_s=np.sqrt(horiz ** 2 + out["vz"] ** 2),
         landing_spin_rpm=out["w"] / RPM_RAD_S, landed=landed, s_min=smin, s_max=smax,
         re_min=remin, re_max=remax, speed_rel_max_m_s=vmax, steps=steps, rhs_evals=rhs.evals,
