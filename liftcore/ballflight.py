@@ -594,9 +594,13 @@ def simulate_rk4(setup: FlightSetup, launch: Launch, t_end: float, dt: float = 0
     for dense output by cubic Hermite interpolation (see :func:`states_at`).
     """
     y0, axis = launch_vectors(launch)
+    P = _params(setup, axis, y0.shape[1], cd_scale, cl_scale)
+    return _rk4_grid(_Rhs(setup), y0, P, t_end, dt)
+
+
+def _rk4_grid(rhs, y0, P, t_end: float, dt: float):
+    """Classical RK4 for all columns of ``y0`` on the grid 0, dt, ... >= t_end: (t, Y, F)."""
     n = y0.shape[1]
-    rhs = _Rhs(setup)
-    P = _params(setup, axis, n, cd_scale, cl_scale)
     m = int(math.ceil(t_end / dt - 1e-9))
     tg = np.arange(m + 1) * dt
     Ys = np.empty((m + 1, 7, n))
@@ -856,11 +860,14 @@ def best_launch(setup: FlightSetup, base: Launch, keys, bounds, output: str = "c
         x0 = np.asarray(start, dtype=float)
         v0 = float(f_batch(x0)[0])
     span = np.array([hi - lo for lo, hi in bnds])
+    # start simplex: 5 % of each range from the grid's best point, stepping inward at an upper bound
+    simplex = [x0]
+    for i in range(len(x0)):
+        step = 0.05 * span[i] * (1.0 if x0[i] + 0.05 * span[i] <= bnds[i][1] else -1.0)
+        simplex.append(x0 + np.eye(len(x0))[i] * step)
     res = minimize(lambda x: sign * float(f_batch(x)[0]), x0, method="Nelder-Mead", bounds=bnds,
                    options={"xatol": 1e-4 * float(span.min()), "fatol": 1e-6, "maxfev": 400,
-                            "initial_simplex": np.vstack([x0] + [x0 + np.eye(len(x0))[i] * 0.05 * span[i]
-                                                                  * (1 if x0[i] + 0.05 * span[i] <= bnds[i][1] else -1)
-                                                                  for i in range(len(x0))])})
+                            "initial_simplex": np.vstack(simplex)})
     best = sign * float(res.fun)
     if (maximise and best < v0) or (not maximise and best > v0):
         return OptimumResult(keys, tuple(float(v) for v in x0), output, v0, maximise, evals, True,
@@ -1142,20 +1149,7 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
         Y0, axis, cd, cl = unpack(theta_cols)
         n = Y0.shape[1]
         P = _params(setup, axis, n, cd, cl)
-        m = int(math.ceil(t_end / dt))
-        Ys = np.empty((m + 1, 7, n))
-        Fs = np.empty((m + 1, 7, n))
-        Y = Y0
-        F = rhs(Y, P)
-        Ys[0], Fs[0] = Y, F
-        for i in range(m):
-            k2 = rhs(Y + 0.5 * dt * F, P)
-            k3 = rhs(Y + 0.5 * dt * k2, P)
-            k4 = rhs(Y + dt * k3, P)
-            Y = Y + (dt / 6.0) * (F + 2 * k2 + 2 * k3 + k4)
-            F = rhs(Y, P)
-            Ys[i + 1], Fs[i + 1] = Y, F
-        tg = np.arange(m + 1) * dt
+        tg, Ys, Fs = _rk4_grid(rhs, Y0, P, t_end, dt)
         k = theta_cols.shape[1]
         out = np.empty((m_obs, k))
         for c in range(k):
