@@ -149,7 +149,8 @@ def carry_histogram(disp, system: str = "SI") -> go.Figure:
     return fig
 
 
-def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI") -> go.Figure:
+def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI",
+                  searched: tuple | None = None) -> go.Figure:
     """Which launch gives the most? The output over the grid of two inputs, best point marked."""
     xl, xk = labels[sw.x_key]
     yl, yk = labels[sw.y_key]
@@ -164,6 +165,10 @@ def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system:
                              marker=dict(size=18, symbol="star", color="#D55E00", line=dict(width=2, color="white")),
                              text=[f"{word}"], textposition="top center", textfont=dict(color="white", size=16),
                              name=f"{word} on the grid"))
+    if searched is not None:
+        fig.add_trace(go.Scatter(x=[_u(searched[0], xk, system)], y=[_u(searched[1], yk, system)], mode="markers",
+                                 marker=dict(size=16, symbol="circle-open", color="white", line=dict(width=3)),
+                                 name="searched best"))
     fig.update_layout(legend=dict(x=0, y=-0.2, orientation="h"))
     return fig
 

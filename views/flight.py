@@ -156,6 +156,11 @@ def _flight_tab(result, values):
     system = unit_system()
     d = result.detail
     show_headlines(result, columns=3)
+    air, b = d.air, d.setup.ball
+    st.caption(f"{b.name}: {number_text(b.diameter_m, 'small_length')}, {number_text(b.mass_kg, 'small_mass')}; "
+               f"model: {d.setup.model.label()}. Air: {number_text(d.setup.density_kg_m3, 'density', 4)}, "
+               f"{number_text(air.temperature_k, 'temperature')}, {number_text(air.pressure_pa, 'pressure', 4)}, "
+               f"humidity {100 * air.relative_humidity:.0f} %.")
     gw = general_warnings(result)
     if gw:
         with st.expander(f"Model notes and warnings ({len(gw)})", expanded=False):
@@ -244,23 +249,26 @@ def _sweep_tab(values):
     out_label, out_kind = bf.OUTPUTS[output]
     labels = {k: (v[0], v[1]) for k, v in bf.SWEEP_INPUTS.items()}
     c1, c2 = st.columns([3, 1])
-    with c1:
-        show_figure(fb.sweep_heatmap(sw, labels, out_label, out_kind, system), key="fig_sweep")
     with c2:
-        st.metric(f"Best {out_label.lower()} on the grid", number_text(sw.best_value, out_kind))
+        st.metric(f"Best {out_label.lower()} on the grid", number_text(sw.best_value, out_kind, 4))
         st.caption(f"{labels[x_key][0]}: {number_text(sw.best_x, labels[x_key][1])}; "
                    f"{labels[y_key][0]}: {number_text(sw.best_y, labels[y_key][1])}")
         if st.button("Search the best launch", key="flight_search",
                      help="Refines the grid's best point within the two ranges (scipy Nelder-Mead)."):
             with st.spinner("Searching…"):
                 st.session_state["flight:best"] = (_best(values, (x_key, y_key), ((x0, x1), (y0, y1)),
-                                                         output, maximise), (x_key, y_key, output))
+                                                         output, maximise),
+                                                   (x_key, y_key, output, maximise, x0, x1, y0, y1))
         best = st.session_state.get("flight:best")
-        if best and best[1] == (x_key, y_key, output):
+        opt = None
+        if best and best[1] == (x_key, y_key, output, maximise, x0, x1, y0, y1):
             opt = best[0]
-            st.metric(f"Searched {out_label.lower()}", number_text(opt.best_value, out_kind))
+            st.metric(f"Searched {out_label.lower()}", number_text(opt.best_value, out_kind, 4))
             st.caption("; ".join(f"{labels[k][0]}: {number_text(v, labels[k][1])}" for k, v in zip(opt.keys, opt.values))
-                       + f" ({opt.evaluations} flights)")
+                       + f" ({opt.evaluations} flights). Other inputs as in the sidebar.")
+    with c1:
+        show_figure(fb.sweep_heatmap(sw, labels, out_label, out_kind, system,
+                                     searched=None if opt is None else opt.values), key="fig_sweep")
     show_warnings([w for w in sw.warnings if w.severity == "invalid"])
 
 
