@@ -44,7 +44,7 @@ INPUTS = InputSpec(KIND, (
            help="Used only with the constant-coefficient model."),
     number("constant_cl", "Constant lift coefficient CL", "ratio", 0.20, -1.0, 3.0, section="Custom ball and constants", step=0.01,
            help="Used only with the constant-coefficient model (lift acts only while the ball spins)."),
-    number("speed_m_s", "Launch speed", "ball_speed", 44.7, 0.0, 150.0, section="Launch", step=0.1,
+    number("speed_m_s", "Launch speed", "ball_speed", 44.704, 0.0, 150.0, section="Launch", step=0.1,
            help="Ball speed just after launch."),
     number("elevation_deg", "Elevation", "angle", 28.0, -90.0, 90.0, section="Launch", step=0.5,
            help="Angle above the horizontal; negative launches downward."),
