@@ -442,7 +442,7 @@ def _constant(S, Re, V, rpm):
 
 MODELS: dict[str, CoefficientModel] = {
     "nathan2008": CoefficientModel(
-        "nathan2008", "Baseball: Nathan (2008)",
+        "nathan2008", "Baseball: after Nathan (2008)",
         "Nathan, A. M. (2008). The effect of spin on the flight of a baseball. Am. J. Phys. 76, 119-124, "
         "doi:10.1119/1.2805242.",
         lambda S, Re, V, rpm: (drag_coefficient_nathan2008(rpm), lift_coefficient_nathan2008(S)),
