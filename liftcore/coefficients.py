@@ -41,8 +41,11 @@ DATA_DIR = Path(__file__).parent / "data" / "coefficients"
 #: Kinds of provenance a set can have, from firmest to loosest.
 KINDS = ("theory", "published table", "published fit", "from-memory approximation", "user")
 
-#: End-plate factor of Hoerner: AR_eff / AR = 1 + 1.9 h / b for a lifting surface with end plates
-#: of height h on a span b (Hoerner & Borst 1985, Fluid-Dynamic Lift, ch. 3; from memory).
+#: End-plate factor: AR_eff / AR = 1 + 1.9 h / b for a wing with end plates of depth h on a span b.
+#: Published in this form in Katz, J., New Directions in Race Car Aerodynamics (as quoted at
+#: mulsannescorner.com/wingendplates.html); its origin in Hoerner & Borst (1985), Fluid-Dynamic
+#: Lift, is from memory. Using it on a rotor is our assumption (see
+#: :func:`effective_aspect_ratio_hoerner`).
 END_PLATE_FACTOR_HOERNER = 1.9
 #: Span efficiency in the induced-drag formula: 1 = elliptic loading (assumed).
 SPAN_EFFICIENCY = 1.0
@@ -152,8 +155,11 @@ def effective_aspect_ratio_hoerner(aspect_ratio, end_plate_ratio):
     Notes
     -----
     AR_eff = AR (1 + 1.9 h / b) with the end-plate overhang h = (De - D) / 2 and span b = H,
-    i.e. AR_eff = AR + 0.95 (De/D - 1). Hoerner's factor is for wings with end plates (from
-    memory); on a rotor it is an assumption. Two-dimensional data (AR = inf) stay infinite.
+    i.e. AR_eff = AR + 0.95 (De/D - 1). The rule is published for wings with end plates (Katz,
+    see :data:`END_PLATE_FACTOR_HOERNER`; the attribution to Hoerner is from memory). On a
+    rotor it is an assumption, and so is the choice of the overhang as h; the deck below the
+    rotor, which also blocks the flow round the lower end, is not counted. Two-dimensional data
+    (AR = inf) stay infinite.
 
     Parameters
     ----------

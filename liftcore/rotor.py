@@ -65,11 +65,15 @@ FLAG_WIND_TOO_FAR_FORWARD = 64  # apparent wind too far forward for any forward 
 FLAG_HEEL_WHEN_STOPPED = 128  # the stopped rotor alone heels more than the limit
 
 #: Turbulent free-disc moment coefficient, both faces: C_M = 0.146 Re^-1/5 with Re = omega r^2/nu
-#: and torque M = 0.5 C_M rho omega^2 r^5 (von Karman 1921, as given in Schlichting,
-#: Boundary-Layer Theory; from memory).
+#: and torque M = 0.5 C_M rho omega^2 r^5. Published in the equivalent form M = 0.073 rho omega^2
+#: r^5 Re^-1/5 for both faces (1/7-power-law boundary layer) in the textbook exercise "Friction
+#: factor for a rotating disk" (problem text quoted at crazyforstudy.com/q-and-a/...-1339844;
+#: that it is from Bird, Stewart & Lightfoot, Transport Phenomena, and goes back to von Karman
+#: 1921 as given in Schlichting, Boundary-Layer Theory, is from memory).
 DISC_MOMENT_CONSTANT = 0.146
-#: Smallest Reynolds number used in the ITTC 1957 friction line (below it laminar flow that the
-#: line does not describe; the power there is negligible anyway).
+#: Smallest Reynolds number used in the ITTC 1957 line (below it laminar flow that the line does
+#: not describe; the power there is negligible anyway). Morrall's tables of the line (1970, NPL
+#: Ship Report 142) were first computed for Re = 1e5 to 1e9.
 FRICTION_RE_MIN = 1.0e5
 
 #: Best-spin search: coarse grid over the whole spin range, fine grid between the best coarse
@@ -369,13 +373,14 @@ def spin_power_skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio,
 
     Notes
     -----
-    Cylinder: turbulent flat-plate friction on the surface speed U = omega R, with the ITTC 1957
-    line C_f = 0.075 / (log10 Re - 2)^2 and Re = U pi D / nu (one circumference as the run
-    length), P = 0.5 rho C_f U^3 (pi D H). Top end plate (or top cap when there is none): a free
-    disc of radius r = max(De, D)/2 wetted on both faces, torque M = 0.5 C_M rho omega^2 r^5 with
-    C_M = 0.146 Re_d^-1/5, Re_d = omega r^2 / nu, power M omega. Applying a flat-plate line to a
-    rotating surface is an assumption, the disc constant is from memory, and the cross-flow, which
-    adds to the real power, is ignored: treat the result as a lower estimate.
+    Cylinder: turbulent skin friction on the surface speed U = omega R, with the ITTC 1957
+    model-ship correlation line C_f = 0.075 / (log10 Re - 2)^2 [1]_ and Re = U pi D / nu (one
+    circumference as the run length), P = 0.5 rho C_f U^3 (pi D H). Top end plate (or top cap
+    when there is none): a free disc of radius r = max(De, D)/2 wetted on both faces, torque
+    M = 0.5 C_M rho omega^2 r^5 with C_M = 0.146 Re_d^-1/5, Re_d = omega r^2 / nu, power
+    M omega [2]_. Applying a line made for ship hulls to a spinning surface, and the run length of
+    one circumference, are our assumptions; the cross-flow, which adds to the real power, is
+    ignored: treat the result as a lower estimate.
 
     Parameters
     ----------
@@ -396,8 +401,14 @@ def spin_power_skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio,
     References
     ----------
     .. [1] ITTC (1957). Proceedings of the 8th International Towing Tank Conference, Madrid
-       (model-ship correlation line).
-    .. [2] Schlichting, H. Boundary-Layer Theory, rotating disc in turbulent flow (from memory).
+       (model-ship correlation line). Formula and tables: Hadler, J. B. (1958). Coefficients for
+       International Towing Tank Conference 1957 model-ship correlation line. DTMB Report 1185;
+       Morrall, A. (1970). 1957 ITTC model-ship correlation line values of frictional resistance
+       coefficient. NPL Ship Report 142.
+    .. [2] Free-disc torque M = 0.073 rho omega^2 r^5 (nu / (r^2 omega))^(1/5), both faces: the
+       exercise "Friction factor for a rotating disk" (text quoted at crazyforstudy.com; its book,
+       Bird, Stewart & Lightfoot, Transport Phenomena, and the von Karman / Schlichting origin
+       are from memory).
     """
     w = np.abs(np.asarray(omega_rad_s, dtype=float))
     r = 0.5 * diameter_m

@@ -65,7 +65,9 @@ def test_outside_the_data_end_values_are_held_and_flagged():
 
 
 def test_hoerner_end_plate_rule():
-    # Analytic: AR (1 + 1.9 h/b) with h = (De - D)/2 and b = H is AR + 0.95 (De/D - 1).
+    # Published form AR_eff = AR (1 + 1.9 h/b) (Katz, New Directions in Race Car Aerodynamics, as
+    # quoted at mulsannescorner.com/wingendplates.html; Hoerner as its origin is from memory); with
+    # h = (De - D)/2 and b = H (our assumption for a rotor) it is AR + 0.95 (De/D - 1).
     assert_allclose(coef.effective_aspect_ratio_hoerner(6.0, 2.0), 6.0 * (1 + 1.9 * (5.0 / 2) / 30.0))
     assert_allclose(coef.effective_aspect_ratio_hoerner(6.0, 1.0), 6.0)
     assert math.isinf(coef.effective_aspect_ratio_hoerner(math.inf, 2.0))
