@@ -456,11 +456,13 @@ def conditions_from_joint(joint: windstats.JointWind, speeds_m_s, shares) -> dic
                               else np.tile(joint.true_wind_direction_deg, speeds.size))}
 
 
-def tally_joint(operate: Callable, joint: windstats.JointWind, speeds_m_s, shares) -> Tally:
+def tally_joint(operate: Callable, joint: windstats.JointWind, speeds_m_s, shares,
+                with_grid: bool = False) -> Tally:
     """Tally a joint wind table under a ship speed profile (speeds and shares of sea time)."""
     c = conditions_from_joint(joint, speeds_m_s, shares)
     return tally_conditions(operate, c["ship_speed_m_s"], c["true_wind_speed_m_s"],
-                            c["true_wind_angle_deg"], c["weight"], direction_deg=c["direction_deg"])
+                            c["true_wind_angle_deg"], c["weight"], direction_deg=c["direction_deg"],
+                            with_grid=with_grid)
 
 
 def tally_block(operate: Callable, block: windstats.SeriesBlock) -> Tally:
@@ -559,7 +561,8 @@ def _dask_frame_block(operate, df: pd.DataFrame, chunk_rows: int):
 
 def tally_series_dask(operate: Callable, source, name: str | None = None, scheduler: str | None = None,
                       n_workers: int = 2, blocks_per_worker: int = 4,
-                      chunk_rows: int = DASK_BLOCK_ROWS, progress=None) -> Tally:
+                      chunk_rows: int = DASK_BLOCK_ROWS, block_bytes: int | None = None,
+                      connect_timeout_s: float = 20.0, progress=None) -> Tally:
     """The same tally as :func:`tally_series`, computed on a Dask cluster.
 
     Parameters
@@ -568,6 +571,9 @@ def tally_series_dask(operate: Callable, source, name: str | None = None, schedu
         Address of a running ``dask.distributed`` scheduler (``tcp://host:8786``); the workers
         must read the file at the same path. ``None`` or ``"local"`` starts a local cluster of
         ``n_workers`` processes on 127.0.0.1 for this call and closes it afterwards.
+    block_bytes : int, optional
+        Bytes of file (or rows of a DataFrame, / 64) per task; by default the source is cut into
+        ``blocks_per_worker`` tasks per worker, 1 MiB to 64 MiB each.
 
     Notes
     -----
@@ -593,7 +599,7 @@ def tally_series_dask(operate: Callable, source, name: str | None = None, schedu
         client = Client(cluster)
     else:
         try:
-            client = Client(scheduler, timeout=20)
+            client = Client(scheduler, timeout=connect_timeout_s)
         except (OSError, TimeoutError, ValueError) as exc:
             raise InputError("dask-scheduler", f"cannot reach the Dask scheduler at {scheduler!r} "
                                                f"({' '.join(str(exc).split()) or type(exc).__name__})") from None
@@ -603,14 +609,16 @@ def tally_series_dask(operate: Callable, source, name: str | None = None, schedu
         op = client.scatter(operate, broadcast=True)
         futures = []
         if isinstance(source, pd.DataFrame):
-            rows = max(1, math.ceil(len(df) / target_blocks))
+            rows = (max(1, block_bytes // 64) if block_bytes else
+                    max(1, math.ceil(len(df) / target_blocks)))
             for s in range(0, len(df), rows):
                 part = client.scatter(df.iloc[s:s + rows])
                 futures.append(client.submit(_dask_frame_block, op, part, chunk_rows, pure=False))
         else:
             size = path.stat().st_size
-            block_bytes = int(min(max(size / target_blocks, 1 << 20), 64 << 20))
-            header, ranges = _file_blocks(path, block_bytes)
+            if not block_bytes:
+                block_bytes = int(min(max(size / target_blocks, 1 << 20), 64 << 20))
+            header, ranges = _file_blocks(path, int(block_bytes))
             missing = [c for c in windstats.SERIES_COLUMNS if c not in header]
             if missing:
                 windstats._series_frame_columns(pd.DataFrame(columns=header), label)
@@ -827,10 +835,10 @@ def heat_table(t: Tally) -> pd.DataFrame:
 
 
 def grid_conditions(t: Tally) -> dict:
-    """The series' conditions binned (ship speed 0.5 m/s x angle 10 deg x wind 1 m/s), each bin
-    at its weighted mean condition, weights as shares of time at sea."""
+    """The conditions binned (ship speed 0.5 m/s x angle 10 deg x wind 1 m/s), each bin at its
+    weighted mean condition, weights as shares of time at sea."""
     if t.grid is None:
-        raise ValueError("this tally has no condition grid (it was not built from a series)")
+        raise ValueError("this tally has no condition grid (build it with with_grid=True)")
     w = t.grid[0]
     idx = np.nonzero(w)
     ww = w[idx]

@@ -246,7 +246,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                            values["round_trip"])
         if step(0, main_end):
             step(0, main_end)(0.1, "Best spin in every wind condition")
-        tally = vy.tally_joint(operate, joint, speeds, shares)
+        tally = vy.tally_joint(operate, joint, speeds, shares, with_grid=sweep_on)
         c = vy.conditions_from_joint(joint, speeds, shares)
         imo_conditions = {k: c[k] for k in ("ship_speed_m_s", "true_wind_speed_m_s",
                                             "true_wind_angle_deg", "weight")}
@@ -275,14 +275,21 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         counts = range(1, values["sweep_max_rotors"] + 1)
         options = vy.option_costs(setup.diameter_m, setup.height_m, setup.rotor_count,
                                   values["installed_cost"], SWEEP_SIZE_FACTORS, counts)
-        if kind == "series":
-            sweep_conditions = vy.grid_conditions(tally)
-            sweep_note = ("The series is binned for the comparison (ship speed 0.5 m/s × angle 10° "
-                          "× wind 1 m/s, each bin at its mean condition).")
-        else:
-            sweep_conditions = imo_conditions
+        sweep_conditions = vy.grid_conditions(tally)
+        if sweep_conditions["weight"].size < n_conditions:
+            sweep_note = ("For speed the options are compared on the wind conditions binned (ship "
+                          "speed 0.5 m/s × angle 10° × wind 1 m/s, each bin at its mean condition).")
         sweep_df = vy.sweep_design_options(lambda o: operate_for(sweep_setup(setup, o)), options,
                                            sweep_conditions, ship, hours, progress=step(main_end + 0.05, 1.0))
+        at = sweep_df[np.isclose(sweep_df["diameter_m"], setup.diameter_m)
+                      & (sweep_df["rotors"] == setup.rotor_count)]
+        if len(at) and sweep_note:
+            binned = float(at["annual_fuel_saved_kg"].iloc[0])
+            exact = summary.annual_fuel_saved_kg
+            if exact != 0:
+                sweep_note += (f" At the entered design the binned conditions give "
+                               f"{100 * (binned - exact) / abs(exact):+.2f} % fuel saved against the "
+                               "exact headline.")
         sweep_note += (" Sizes keep the entered proportions; motor power scales with D × H and the "
                        "rpm limit with 1/D; cost per rotor scales with D × H from the entered "
                        "installation (an assumption for comparing options, not a quote).")
