@@ -149,12 +149,16 @@ def render_inputs(spec: InputSpec, container=None, skip=(), show_if=None) -> dic
     c = container or st.sidebar
     values = current_values(spec)
     for section, fields in spec.sections():
-        shown = [f for f in fields if f.key not in skip and (show_if is None or f.key not in show_if
-                                                              or show_if[f.key](values))]
+        candidates = [f for f in fields if f.key not in skip]
+        shown = [f for f in candidates if show_if is None or f.key not in show_if
+                 or show_if[f.key](values)]
         if not shown:
             continue
         with c.expander(section, expanded=not any(f.advanced for f in shown)):
-            for f in shown:
+            for f in candidates:
+                # ask again: a widget above in this section may just have changed the answer
+                if show_if is not None and f.key in show_if and not show_if[f.key](values):
+                    continue
                 values[f.key] = input_widget(spec, f)
     return values
 
