@@ -20,10 +20,7 @@ ARRAYS = ("sums", "state", "flags", "peak", "heat_weight", "heat_net", "rose", "
 
 @pytest.fixture(scope="module")
 def scheduler():
-    from dask.distributed import LocalCluster
-
-    cluster = LocalCluster(n_workers=2, threads_per_worker=1, host="127.0.0.1", processes=True,
-                           dashboard_address=None)
+    cluster = vy.local_cluster(2)  # two worker processes on 127.0.0.1
     try:
         yield cluster.scheduler_address
     finally:

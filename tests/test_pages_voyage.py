@@ -49,8 +49,12 @@ def test_wind_kind_and_rotor_count_by_widget_key():
 
 
 def test_series_shows_monthly_and_leg_bars():
-    at = page(**{"voyage:sweep": False, "voyage:wind_kind": "series"}).run()
+    at = page(**{"voyage:sweep": False}).run()
+    at.selectbox(key="w:voyage:wind_kind:SI").set_value("series").run()
     assert not at.exception
+    # the series' own inputs appear in the same run; the table's service speed goes
+    assert at.toggle(key="w:voyage:hours_from_series:SI").value is True
+    assert not [w for w in at.number_input if w.key == "w:voyage:ship_speed_m_s:SI"]
     assert shown(at) == expected({"wind_kind": "series", "sweep": False})
     # rose, heat map, operating time, months, legs
     assert len(at.get("plotly_chart")) == 5
