@@ -550,12 +550,13 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     -----
     The operating spin ratio is searched in [0, SR_top] with SR_top the smallest of the highest
     spin ratio allowed, the top of the coefficient data and the spin ratio of the maximum rpm.
-    The motor-power and heeling-moment limits are constraints. All conditions are solved at once:
-    a grid of ``BEST_GRID_POINTS`` spin ratios per condition, the best feasible grid point, a
-    bisection for the limit boundary when the next grid point breaks a limit, then a golden-section
-    refinement between the neighbouring grid points (no loop over conditions). A stopped rotor
-    (SR = 0; its drag as a still cylinder is counted) is always allowed and is chosen when no spin
-    pays more.
+    The motor-power and heeling-moment limits are constraints. All conditions are solved at once
+    (no loop over conditions): a grid of ``BEST_GRID_POINTS`` spin ratios per condition gives the
+    best grid point that keeps the limits; a bisection locates the limit boundary between the two
+    grid points where a limit starts (or stops) binding with the most net gain beside it; a
+    golden-section search refines between the best grid point's neighbours (cut at that
+    boundary); the best of these candidates is kept. A stopped rotor (SR = 0; its drag as a still
+    cylinder is counted) is always allowed and is chosen when no spin pays more.
 
     Parameters
     ----------
@@ -613,23 +614,36 @@ def _best_omega(setup: RotorSetup, w: _Wind) -> np.ndarray:
     cols = np.arange(grid.shape[1])
     best_x = grid[i_best, cols]
     best_f = net[i_best, cols]
-    # bracket around the best grid point
-    i_lo = np.maximum(i_best - 1, 0)
-    i_hi = np.minimum(i_best + 1, k - 1)
-    lo = np.where(ok[i_lo, cols], grid[i_lo, cols], best_x)
-    hi_x = grid[i_hi, cols]
-    hi_ok = ok[i_hi, cols]
-    # where the next grid point breaks a limit, bisect for the boundary (feasible side kept)
-    need = ~hi_ok & (i_hi > i_best)
-    if need.any():
-        a, b = best_x.copy(), hi_x.copy()
+    # A limit binds between two neighbouring grid points of which one keeps it and the other
+    # breaks it; the optimum may sit on that boundary. Take the crossing whose feasible side has
+    # the largest net gain and bisect it (feasible side kept).
+    okr = _feasible(setup, res)
+    net_r = np.where(okr, res["net"], -np.inf)
+    up = okr[:-1] & ~okr[1:]                                              # keeps at i, breaks at i+1
+    down = ~okr[:-1] & okr[1:]                                            # breaks at i, keeps at i+1
+    score = np.concatenate([np.where(up, net_r[:-1], -np.inf), np.where(down, net_r[1:], -np.inf)])
+    pick = np.argmax(score, axis=0)
+    has_edge = np.isfinite(score[pick, cols])
+    is_up = pick < k - 1
+    i_t = np.where(is_up, pick, pick - (k - 1))                           # crossing between i_t, i_t+1
+    keep_x = np.where(is_up, grid[i_t, cols], grid[np.minimum(i_t + 1, k - 1), cols])
+    break_x = np.where(is_up, grid[np.minimum(i_t + 1, k - 1), cols], grid[i_t, cols])
+    edge = keep_x
+    if has_edge.any():
+        a, b = keep_x.copy(), break_x.copy()
         for _ in range(BOUNDARY_STEPS):
             m = 0.5 * (a + b)
             fm = _feasible(setup, _evaluate(setup, w, m))
-            a = np.where(need & fm, m, a)
-            b = np.where(need & ~fm, m, b)
-        hi_x = np.where(need, a, hi_x)
-    hi = np.where(i_hi > i_best, hi_x, best_x)
+            a = np.where(has_edge & fm, m, a)
+            b = np.where(has_edge & ~fm, m, b)
+        edge = np.where(has_edge, a, keep_x)
+    # bracket around the best grid point, cut at the boundary where a neighbour breaks a limit
+    i_lo = np.maximum(i_best - 1, 0)
+    i_hi = np.minimum(i_best + 1, k - 1)
+    hi_edge = has_edge & is_up & (i_t == i_best)
+    lo_edge = has_edge & ~is_up & (i_t + 1 == i_best)
+    lo = np.where(okr[i_lo, cols], grid[i_lo, cols], np.where(lo_edge, edge, best_x))
+    hi = np.where(okr[i_hi, cols], grid[i_hi, cols], np.where(hi_edge, edge, best_x))
     # golden-section maximisation of the net gain on [lo, hi]
     a, b = lo, hi
     c = b - _GOLDEN * (b - a)
@@ -642,11 +656,10 @@ def _best_omega(setup: RotorSetup, w: _Wind) -> np.ndarray:
         a = np.where(left, a, c)
         new = np.where(left, b - _GOLDEN * (b - a), a + _GOLDEN * (b - a))
         fnew = _evaluate(setup, w, new)["net"]
-        fd = np.where(left, fc, fnew)
-        fc = np.where(left, fnew, fc)
+        fc, fd = np.where(left, fnew, fd), np.where(left, fc, fnew)
         c, d = np.where(left, new, d), np.where(left, c, new)
     x_g = 0.5 * (a + b)
-    candidates = np.stack([best_x, x_g, hi])                             # (3, N)
+    candidates = np.stack([best_x, x_g, lo, hi, edge])                   # (5, N)
     res_c = _evaluate(setup, w, candidates)
     ok_c = _feasible(setup, res_c) | (candidates == 0.0)
     f_c = np.where(ok_c, res_c["net"], -np.inf)
@@ -940,3 +953,32 @@ def with_coefficients(setup: RotorSetup, coefficients: coef.CoefficientSet) -> R
     from dataclasses import replace
 
     return replace(setup, coefficients=coefficients)
+
+
+# ============================================================================ curves for charts
+@dataclass(frozen=True)
+class CoefficientCurves:
+    """A set's coefficients over its spin-ratio range as used on this rotor (for charts)."""
+
+    spin_ratio: np.ndarray
+    lift_coefficient: np.ndarray
+    drag_coefficient: np.ndarray
+    power_coefficient: np.ndarray
+    power_from_friction_model: bool
+
+
+def coefficient_curves(setup: RotorSetup, apparent_wind_speed_m_s: float, points: int = 121) -> CoefficientCurves:
+    """CL, CD (induced drag moved to this rotor when ``correct_aspect_ratio``) and CP over the
+    set's spin-ratio range. Without a power coefficient in the set, CP is the skin-friction
+    model's power expressed as P / (q D H V) at the given apparent wind speed."""
+    lo, hi = setup.coefficients.sr_range
+    sr = np.linspace(lo, hi, points)
+    cl, cd, cp = setup.rotor_coefficients(sr)
+    friction = cp is None
+    if friction:
+        v = max(float(apparent_wind_speed_m_s), 0.1)
+        omega = sr * v / setup.radius_m
+        p = spin_power_skin_friction(omega, setup.diameter_m, setup.height_m, setup.end_plate_ratio,
+                                     setup.air_density_kg_m3, setup.kinematic_viscosity_m2_s)
+        cp = p / (0.5 * setup.air_density_kg_m3 * v ** 3 * setup.area_m2)
+    return CoefficientCurves(sr, cl, cd, cp, friction)
