@@ -35,7 +35,7 @@ def test_json_keys_and_progress_on_stderr_only(capsys):
         assert key in data
     assert "%" in err  # the progress line went to stderr
     r = run_study("voyage", {"wind_kind": "table", "sweep": False, "rotor_count": 2,
-                             "ship_speed_m_s": 12 * 1852 / 3600, "hours_at_sea_h": 6000.0})
+                             "ship_speed_m_s": 12 * (1852 / 3600), "hours_at_sea_h": 6000.0})
     assert_allclose(data["annual_fuel_saved_t"], r.json["annual_fuel_saved_t"], rtol=1e-12)
 
 
@@ -56,6 +56,27 @@ def test_one_row_table_equals_the_single_condition_rotor_result(capsys, tmp_path
     # analytic: a single condition held for 5000 h
     assert_allclose(data["annual_energy_saved_mwh"], float(op.net_power_w) / 1e6 * 5000, rtol=1e-12)
     assert data["running_share"] == (1.0 if int(op.state) > 0 else 0.0)
+
+
+@pytest.mark.parametrize("angle, speed_m_s", [(90.0, 10.0), (-60.0, 6.0)])
+def test_one_row_table_equals_the_rotor_command(capsys, tmp_path, angle, speed_m_s):
+    table = tmp_path / "one.csv"
+    table.write_text(f"true_wind_angle_deg,true_wind_speed_m_s,probability\n{angle},{speed_m_s},1\n")
+    shared = ["--diameter-m", "4", "--height-m", "26", "--rotors", "3", "--ship-speed-kn", "13",
+              "--max-motor-power-kw", "120", "--coefficients", "end_plates_model",
+              "--temperature-c", "25", "--pressure-pa", "100500", "--json"]
+    code, out, _ = run_cli(capsys, ["voyage", "--fuel", "mdo", "--wind-table", str(table),
+                                    "--hours-at-sea", "4000"] + shared)
+    assert code == 0
+    voyage = json.loads(out)
+    # the rotor command takes the wind in knots: 1 kn = 1852/3600 m/s
+    code, out, _ = run_cli(capsys, ["rotor", "--true-wind-speed-kn", repr(speed_m_s / (1852 / 3600)),
+                                    "--true-wind-angle-deg", str(angle)] + shared)
+    assert code == 0
+    single = json.loads(out)
+    assert_allclose(voyage["mean_net_power_kw"], single["net_power_kw"], rtol=1e-9)
+    assert_allclose(voyage["mean_thrust_kn"], single["thrust_n"] / 1000, rtol=1e-9)
+    assert_allclose(voyage["peak_heeling_moment_knm"], abs(single["heeling_moment_knm"]), rtol=1e-9)
 
 
 def _table(tmp_path, body, name="trade.csv"):
@@ -98,7 +119,12 @@ def test_bad_tables_exit_2_with_one_line(capsys, tmp_path, body, message):
     (["--ship-speed-kn", "12", "--hours-at-sea", "9000"],
      "liftcore: hours-at-sea must be between 1 and 8760 h (got 9000 h)"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--max-rpm", "-3"],
-     "liftcore: Maximum rotor speed must be between 1 and 1000 rpm (got -3 rpm)"),
+     "liftcore: --max-rpm: Maximum rotor speed must be between 1 and 1000 rpm (got -3 rpm)"),
+    (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--coefficients", "nothing"],
+     "liftcore: --coefficients must be one of potential_flow, bare_cylinder, end_plates_fullscale_fit, "
+     "end_plates_model or a .csv file (got 'nothing')"),
+    (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--temperature-c", "300"],
+     "liftcore: temperature-c must be between -73.15 and 76.85 degC (got 300 degC)"),
 ])
 def test_bad_options_exit_2_with_one_line(capsys, extra, message):
     code, _, err = run_cli(capsys, BASE + ["--wind-table", str(study.DEMO_FILES["table"])] + extra)
