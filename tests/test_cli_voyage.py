@@ -36,7 +36,9 @@ def test_json_keys_and_progress_on_stderr_only(capsys):
     assert "%" in err  # the progress line went to stderr
     r = run_study("voyage", {"wind_kind": "table", "sweep": False, "rotor_count": 2,
                              "ship_speed_m_s": 12 * (1852 / 3600), "hours_at_sea_h": 6000.0})
-    assert_allclose(data["annual_fuel_saved_t"], r.json["annual_fuel_saved_t"], rtol=1e-12)
+    # the command checks its inputs in marine units (as the rotor command does): the unit round
+    # trip moves inputs by ~1e-16, which the best-spin search may carry to ~1e-10
+    assert_allclose(data["annual_fuel_saved_t"], r.json["annual_fuel_saved_t"], rtol=1e-9)
 
 
 @pytest.mark.parametrize("angle, speed", [(90.0, 10.0), (-135.0, 14.0), (20.0, 7.0)])
