@@ -36,7 +36,6 @@ from __future__ import annotations
 import io
 import math
 import re
-import time
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Callable
@@ -790,13 +789,39 @@ def voyage_warnings(t: Tally) -> tuple:
     return tuple(out)
 
 
+def series_span_hours(t: Tally) -> float:
+    """Hours from the first to the last row of a series, plus the last row's hour."""
+    if t.time_span_ns is None:
+        return math.nan
+    return (t.time_span_ns[1] - t.time_span_ns[0]) / 3.6e12 + 1.0
+
+
 def series_hours_at_sea_per_year(t: Tally) -> float:
-    """Hours at sea per year in a series: hours under way / years the series spans."""
+    """Hours at sea per year in a series: hours under way / years the series spans (each row one
+    hour), at most 8760."""
     if t.time_span_ns is None or t.weight <= 0:
         return math.nan
-    span_h = (t.time_span_ns[1] - t.time_span_ns[0]) / 3.6e12 + 1.0
-    years = max(span_h, 1.0) / HOURS_PER_YEAR
-    return min(t.weight / years, HOURS_PER_YEAR) if years >= 1.0 else t.weight / years
+    years = max(series_span_hours(t), 1.0) / HOURS_PER_YEAR
+    return min(t.weight / years, HOURS_PER_YEAR)
+
+
+def series_warnings(t: Tally) -> tuple:
+    """Cautions about how a series covers time (short spans, rows closer than an hour)."""
+    out = []
+    span = series_span_hours(t)
+    if not math.isfinite(span):
+        return ()
+    if t.rows > 1.01 * span:
+        out.append(ModelWarning("series_not_hourly",
+                                f"The series has {t.rows:,} rows over {span:,.0f} hours: each row is "
+                                "counted as one hour, so rows closer than an hour overweight their "
+                                "period; resample to hourly rows.", ""))
+    if span < 0.99 * HOURS_PER_YEAR:
+        out.append(ModelWarning("series_shorter_than_a_year",
+                                f"The series spans {span / 24:,.0f} days: yearly figures assume the "
+                                "rest of the year has the same winds (seasons are not covered).",
+                                "annual_energy_saved"))
+    return tuple(out)
 
 
 def summarise(t: Tally, ship: ShipEconomics, hours_at_sea_per_year: float | None = None) -> VoyageSummary:

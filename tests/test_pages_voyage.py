@@ -6,7 +6,6 @@ import pytest
 from streamlit.testing.v1 import AppTest
 
 from liftcore.studies import run_study
-from liftcore.studies import voyage as study
 
 PAGE = str(Path(__file__).resolve().parents[1] / "views" / "voyage.py")
 KNOT = 1852 / 3600  # m/s per knot (international nautical mile)

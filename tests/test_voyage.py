@@ -185,6 +185,12 @@ def test_series_hours_at_sea_per_year():
     t = vy.tally_series(toy_operate, df)
     assert_allclose(vy.series_hours_at_sea_per_year(t), 4380.0)
     assert t.rows == n and t.weight == n / 2
+    assert vy.series_warnings(t) == ()
+    # a month of ten-minute rows: counted as hours, so both cautions apply
+    short = df.iloc[:6 * 24 * 30].assign(
+        time=pd.date_range("2033-01-01", periods=6 * 24 * 30, freq="10min").strftime("%Y-%m-%dT%H:%M"))
+    codes = [w.code for w in vy.series_warnings(vy.tally_series(toy_operate, short))]
+    assert codes == ["series_not_hourly", "series_shorter_than_a_year"]
 
 
 def test_warning_shares_are_shares_of_time_at_sea():

@@ -256,6 +256,8 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                             "true_wind_angle_deg", "weight")}
         n_conditions = joint.size * speeds.size
     summary = vy.summarise(tally, ship, hours)
+    if kind == "series":
+        summary = replace(summary, warnings=summary.warnings + vy.series_warnings(tally))
     if progress:
         progress(main_end, "IMO wind-propulsion term")
 
