@@ -14,6 +14,7 @@ and checks that both give the same mean net power gain. Prints seconds and rows 
 
 from __future__ import annotations
 
+import os
 import sys
 import tempfile
 import time
@@ -57,7 +58,8 @@ def main() -> None:
         path = Path(tmp) / "twenty_years.csv"
         rows = build_series(path)
         size_mb = path.stat().st_size / 1e6
-        print(f"voyage: {rows:,} hourly rows ({YEARS} invented years, {size_mb:.1f} MB), {ROTORS} rotors")
+        print(f"voyage: {rows:,} hourly rows ({YEARS} invented years, {size_mb:.1f} MB), {ROTORS} rotors; "
+              f"{os.cpu_count()} CPUs, load average {os.getloadavg()[0]:.1f} at the start")
 
         t = time.perf_counter()
         memory = vy.tally_series(operate, path)
