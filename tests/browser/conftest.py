@@ -98,3 +98,14 @@ def wait_for_app(page, timeout_s: float = 90.0) -> None:
                 return
         time.sleep(0.3)
     raise AssertionError("the page kept running for more than %.0f s" % timeout_s)
+
+
+def full_screenshot(page, path, width: int = 1600, max_height: int = 7000) -> None:
+    """Screenshot of the whole page. Streamlit scrolls inside its own container, so grow the
+    viewport to the container's height first (``full_page=True`` alone shows one screen)."""
+    height = page.evaluate(
+        "() => { const m = document.querySelector('[data-testid=stMain]') ||"
+        " document.querySelector('section.main'); return m ? m.scrollHeight : 1000; }")
+    page.set_viewport_size({"width": width, "height": int(min(max(height, 800), max_height))})
+    page.wait_for_timeout(800)
+    page.screenshot(path=str(path), full_page=True)
