@@ -87,6 +87,8 @@ def shots_dir(tmp_path_factory):
 def wait_for_app(page, timeout_s: float = 90.0) -> None:
     """Wait until Streamlit has finished running the script (no 'running' indicator)."""
     page.wait_for_selector('[data-testid="stApp"]', timeout=timeout_s * 1000)
+    # Every page starts with a title: the script has begun rendering once it is there.
+    page.wait_for_selector("h1", timeout=timeout_s * 1000)
     deadline = time.time() + timeout_s
     time.sleep(1.0)
     while time.time() < deadline:
