@@ -85,7 +85,8 @@ def input_text(f: Field, value, system: str = "SI") -> tuple[str, str]:
 def input_rows(kind: str, values: dict, system: str = "SI") -> list[dict]:
     """Every input of ``kind``: section, label, key, shown value and unit, core value, changed."""
     rows = []
-    for f in study(kind).INPUTS.fields:
+    fields = [f for _, group in study(kind).INPUTS.sections() for f in group]
+    for f in fields:
         v = values.get(f.key, f.default)
         text, unit = input_text(f, v, system)
         core_unit = units.core_unit_label(f.quantity) if f.kind == "number" and f.quantity in units.CORE else ""
@@ -259,7 +260,8 @@ tr { break-inside: avoid; page-break-inside: avoid; }
 tr.differs td { background: #fff3c4; font-weight: bold; }
 .mark { font-weight: bold; }
 .warnings li { margin-bottom: 4px; }
-.warnings .invalid { color: #8b0000; font-weight: bold; }
+.warnings .sev-invalid { color: #8b0000; font-weight: bold; }
+table.dataframe td { text-align: right; font-variant-numeric: tabular-nums; }
 .caution { border: 2px solid #D55E00; border-radius: 6px; padding: 8px 12px; margin: 8px 0;
            break-inside: avoid; page-break-inside: avoid; }
 figure.chart { margin: 10px 0 18px; break-inside: avoid; page-break-inside: avoid; }
@@ -331,7 +333,7 @@ def _warnings_html(result: StudyResult) -> str:
     general = [w for w in result.warnings if w.subject not in keys]
     if not result.warnings:
         return "<p>No model warnings for these inputs.</p>"
-    items = [f"<li class=\"{_e(w.severity)}\">{'Not valid: ' if w.severity == 'invalid' else ''}{_e(w.message)}</li>"
+    items = [f"<li class=\"sev-{_e(w.severity)}\">{'Not valid: ' if w.severity == 'invalid' else ''}{_e(w.message)}</li>"
              for w in general]
     shown = len(result.warnings) - len(general)
     extra = f"<p>{shown} more beside the numbers they qualify, above.</p>" if shown else ""
@@ -453,7 +455,7 @@ def comparison_report(runs: list[Run], title: str = "", note: str = "", unit_sys
         for r in group:
             if r.result.warnings:
                 any_w = True
-                items = "".join(f"<li class=\"{_e(w.severity)}\">{_e(w.message)}</li>" for w in r.result.warnings)
+                items = "".join(f"<li class=\"sev-{_e(w.severity)}\">{_e(w.message)}</li>" for w in r.result.warnings)
                 body.append(f"<p><b>{_e(r.name)}</b></p><ul class=\"warnings\">{items}</ul>")
         if not any_w:
             body.append("<p>No model warnings for these options.</p>")
@@ -527,20 +529,20 @@ def _csv_cell(text: str) -> str:
 
 
 def comparison_csv(runs: list[Run], unit_system: str = "SI") -> str:
-    """Per kind: inputs (one column per option) and headlines with differences to the first option."""
+    """Per kind, blocks titled ``inputs,<kind>`` (one column per option), ``headlines,<kind>``
+    (values, then each option minus the first) and ``warnings,<kind>``."""
     buf, w = _csv_writer()
     w.writerow(["liftcore comparison", f"{len(runs)} options"])
     w.writerow(["unit system", unit_system])
     for kind, group in group_by_kind(runs):
         names = [r.name for r in group]
         w.writerow([])
-        w.writerow(["kind", kind])
-        w.writerow(["inputs"])
+        w.writerow(["inputs", kind])
         w.writerow(["input", "key", "unit", *names, "differs"])
         for r in input_diff_rows(kind, group, unit_system):
             w.writerow([r["label"], r["key"], r["unit"], *r["texts"], "yes" if r["differs"] else "no"])
         w.writerow([])
-        w.writerow(["headlines"])
+        w.writerow(["headlines", kind])
         w.writerow(["headline", "key", "unit", *names, *[f"{n} minus {names[0]}" for n in names[1:]]])
         for h0 in group[0].result.headlines:
             vals, diffs = [], []
@@ -554,7 +556,7 @@ def comparison_csv(runs: list[Run], unit_system: str = "SI") -> str:
                 diffs.append(_num(_sig(v - v0)))
             w.writerow([h0.label, h0.key, h0.shown(unit_system)[1], *vals, *diffs[1:]])
         w.writerow([])
-        w.writerow(["warnings"])
+        w.writerow(["warnings", kind])
         w.writerow(["option", "subject", "severity", "code", "message"])
         for r in group:
             for wn in r.result.warnings:

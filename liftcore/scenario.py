@@ -166,7 +166,7 @@ def load_document(path: str | Path) -> Scenario | Comparison:
         raise InputError("file", f"{p.name} is {size} bytes; scenario files must be at most "
                                  f"{MAX_SCENARIO_BYTES} bytes")
     if not p.is_file():
-        raise InputError("file", f"{p.name} is not a regular file")
+        raise InputError("file", f"{p} is not a regular file")
     with p.open("rb") as fh:  # read at most one byte more than allowed, whatever stat said
         data = fh.read(MAX_SCENARIO_BYTES + 1)
     return parse_document(data, p.name)
