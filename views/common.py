@@ -181,14 +181,20 @@ def render_inputs(spec: InputSpec, container=None, skip=(), show_if=None) -> dic
     """
     c = container or st.sidebar
     values = current_values(spec)
+
+    def visible(f: Field) -> bool:
+        return show_if is None or f.key not in show_if or bool(show_if[f.key](values))
+
     for section, fields in spec.sections():
-        shown = [f for f in fields if f.key not in skip and (show_if is None or f.key not in show_if
-                                                              or show_if[f.key](values))]
+        fields = [f for f in fields if f.key not in skip]
+        shown = [f for f in fields if visible(f)]
         if not shown:
             continue
         with c.expander(section, expanded=not any(f.advanced for f in shown)):
-            for f in shown:
-                values[f.key] = input_widget(spec, f)
+            for f in fields:
+                # decided again here: a choice just above in this section may have changed `values`
+                if visible(f):
+                    values[f.key] = input_widget(spec, f)
     return values
 
 

@@ -1,6 +1,88 @@
-"""Circulation from a measured field page (being built)."""
+"""Circulation from a measured field: line integrals of a gridded velocity field round the body."""
 
 import streamlit as st
 
+from liftcore import fieldcirc
+from liftcore.errors import InputError
+from liftcore.studies import study as study_module
+from views import common
+
+study = study_module("field")
+
+FORMAT_HELP = (
+    "Plain CSV with a header row **x, y, u, v** (any order, any case; other columns are ignored): "
+    "positions in metres, velocity components in m/s, one row per grid point in any order. The x "
+    "values must be evenly spaced, the y values too, and every (x, y) pair must appear exactly once. "
+    "Lines starting with # are comments. Points inside the body may hold any number (0 is usual). "
+    "Loops are run clockwise: positive circulation lifts to the left of the stream (up, for a "
+    "stream from left to right)."
+)
+
+
+@st.cache_data(max_entries=4, show_spinner="Reading the field…")
+def _read_upload(data: bytes, name: str):
+    return fieldcirc.read_field_csv(data, name)
+
+
 st.title("Circulation from a measured field")
-st.info("This page is being built.")
+st.caption(
+    "Line integrals of the velocity round loops that enclose the body give its circulation; once "
+    "the loops clear the body and its viscous layer the value settles, and Kutta-Joukowski turns "
+    "it into lift per metre of span."
+)
+
+upload = st.file_uploader("Velocity field (CSV with columns x, y, u, v)", type=["csv", "txt"],
+                          key="field_upload", help="See 'File format' below.")
+
+with st.sidebar:
+    values = common.render_inputs(study.INPUTS, show_if={
+        "rectangle_aspect": lambda v: v["loop_shape"] == "rectangle",
+        "free_stream_m_s": lambda v: v["free_stream_mode"] == "given",
+        "density_kg_m3": lambda v: v["density_mode"] == "given",
+        "air_mode": lambda v: v["density_mode"] == "air",
+        "altitude_m": lambda v: v["density_mode"] == "air" and v["air_mode"] == "isa",
+        "temperature_k": lambda v: v["density_mode"] == "air" and v["air_mode"] == "measured",
+        "pressure_pa": lambda v: v["density_mode"] == "air" and v["air_mode"] == "measured",
+        "relative_humidity_pct": lambda v: v["density_mode"] == "air",
+    })
+
+extra = None
+try:
+    if upload is not None:
+        extra = _read_upload(upload.getvalue(), upload.name)
+        st.caption(f"Field from your file **{upload.name}** ({len(extra)} rows).")
+    else:
+        st.info(study.DEMO_NOTE, icon=":material/science:")
+    result = common.run_cached(study.KIND, values, extra=extra, label="Integrating round the loops")
+except InputError as exc:
+    st.error(f"{exc}", icon=":material/error:")
+    st.caption("Your inputs are kept: change them in the sidebar, or upload a corrected file.")
+    with st.expander("File format", expanded=True):
+        st.markdown(FORMAT_HELP)
+    st.stop()
+
+common.show_headlines(result)
+common.show_warnings(common.general_warnings(result))
+
+figs = dict(result.figures)
+left, right = st.columns([1.1, 1])
+with left:
+    common.show_figure(figs["Velocity field and loops"], key="field_map")
+with right:
+    common.show_figure(figs["Circulation against loop size"], key="field_circulation")
+    st.caption(
+        "Filled markers: the outer half of the loops, which count toward the estimate. The band "
+        "is their loop-to-loop spread (half their range)."
+    )
+
+with st.expander("Circulation of each loop"):
+    st.dataframe(result.tables["loops"], hide_index=True, width="stretch")
+    st.download_button("Download as CSV", result.tables["loops"].to_csv(index=False),
+                       file_name="circulation_per_loop.csv", mime="text/csv")
+with st.expander("File format"):
+    st.markdown(FORMAT_HELP)
+    st.download_button("Download the invented demo field (CSV)",
+                       fieldcirc.DEMO_FIELD_PATH.read_bytes(), file_name=fieldcirc.DEMO_FIELD_PATH.name,
+                       mime="text/csv")
+
+common.show_sources_and_cautions(study)

@@ -20,7 +20,7 @@ The dashboard pages, ``python -m liftcore run``, the comparison page and the rep
 from __future__ import annotations
 
 import importlib
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field as dc_field  # not `field`: that is a study kind
 from typing import Any, Callable
 
 from liftcore import units
@@ -81,9 +81,9 @@ class StudyResult:
     headlines: tuple[Headline, ...]
     warnings: tuple[ModelWarning, ...] = ()
     figures: tuple = ()
-    tables: dict = field(default_factory=dict)
+    tables: dict = dc_field(default_factory=dict)
     detail: Any = None
-    json: dict = field(default_factory=dict)
+    json: dict = dc_field(default_factory=dict)
 
     def headline(self, key: str) -> Headline:
         for h in self.headlines:

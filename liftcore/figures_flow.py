@@ -1,0 +1,251 @@
+"""Figures for the ideal spinning cylinder and for circulation from a measured field.
+
+Each builder answers one question (its title says which) and starts from
+:func:`liftcore.figures.base_figure`. Geometry of the ideal flow is drawn in body radii (x/R, y/R)
+so the pictures read the same at any size; measured fields keep their own metres.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import plotly.graph_objects as go
+
+from liftcore import potential as pot
+from liftcore.figures import PALETTE, SEQUENTIAL, band, base_figure, colour
+
+BODY_FILL = "#9a9a9a"
+BODY_LINE = "#333333"
+#: Grid points per axis of the ideal-flow picture (enough for smooth lines, small to send).
+FLOW_GRID = 141
+
+
+def _body(fig: go.Figure, cx: float, cy: float, r: float) -> None:
+    fig.add_shape(type="circle", x0=cx - r, y0=cy - r, x1=cx + r, y1=cy + r,
+                  fillcolor=BODY_FILL, line=dict(color=BODY_LINE, width=2), layer="above")
+
+
+def _equal_axes(fig: go.Figure, x_range, y_range) -> None:
+    fig.update_xaxes(range=list(x_range), constrain="domain")
+    fig.update_yaxes(range=list(y_range), scaleanchor="x", scaleratio=1, constrain="domain")
+
+
+def flow_picture_half_width(res: pot.IdealCylinderResult) -> float:
+    """Half-width of the streamline picture in body radii: 3, or wide enough to show an
+    off-body stagnation point (capped at 12)."""
+    return float(min(12.0, max(3.0, 1.35 * res.stagnation_distance_m / res.radius_m)))
+
+
+def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID) -> go.Figure:
+    """Streamlines (stream-function contours) over the local speed, body and stagnation points."""
+    r, v, g = res.radius_m, res.speed_m_s, res.circulation_m2_s
+    half = flow_picture_half_width(res)
+    s = np.linspace(-half, half, n)
+    xx, yy = np.meshgrid(s * r, s * r)
+    u, w = pot.velocity_field(xx, yy, v, r, g)
+    speed = np.hypot(u, w) / v
+    psi = pot.stream_function(xx, yy, v, r, g) / (v * r)
+    fig = base_figure("Where the air goes: streamlines round the spinning cylinder",
+                      "x / R (stream flows left to right)", "y / R", height=600)
+    fig.add_trace(go.Heatmap(x=s, y=s, z=speed.astype(np.float32), colorscale=SEQUENTIAL, zmin=0.0,
+                             zmax=3.0, name="speed",
+                             colorbar=dict(title=dict(text="speed /<br>free stream"), thickness=18),
+                             hovertemplate="x/R %{x:.2f}, y/R %{y:.2f}<br>speed/free stream %{z:.2f}"
+                                           "<extra></extra>"))
+    finite = psi[np.isfinite(psi)]
+    psi32 = psi.astype(np.float32)
+    step = 2.0 * half / 24.0
+    fig.add_trace(go.Contour(x=s, y=s, z=psi32, showscale=False, hoverinfo="skip",
+                             contours=dict(coloring="lines", start=float(finite.min()),
+                                           end=float(finite.max()), size=step, showlabels=False),
+                             colorscale=[[0, "#ffffff"], [1, "#ffffff"]], line=dict(width=1.6),
+                             name="streamlines"))
+    # the streamline through the stagnation point(s): the edge of the air carried round the body
+    sx, sy = res.stagnation_points_m[0]
+    psi_s = float(pot.stream_function(sx, sy, v, r, g)) / (v * r) if not res.stagnation_on_surface else 0.0
+    fig.add_trace(go.Contour(x=s, y=s, z=psi32, showscale=False, hoverinfo="skip",
+                             contours=dict(coloring="lines", start=psi_s, end=psi_s, size=1.0,
+                                           showlabels=False),
+                             colorscale=[[0, PALETTE[4]], [1, PALETTE[4]]], line=dict(width=3.5),
+                             name="dividing streamline", showlegend=True))
+    _body(fig, 0.0, 0.0, 1.0)
+    px = [p[0] / r for p in res.stagnation_points_m]
+    py = [p[1] / r for p in res.stagnation_points_m]
+    fig.add_trace(go.Scatter(x=px, y=py, mode="markers", name="stagnation point",
+                             marker=dict(symbol="x-thin", size=20, color=PALETTE[1],
+                                         line=dict(width=5, color=PALETTE[1])),
+                             hovertemplate="stagnation point<br>x/R %{x:.2f}, y/R %{y:.2f}<extra></extra>"))
+    sign = 1.0 if res.lift_per_span_n_m >= 0 else -1.0
+    if res.spin_rad_s != 0.0:
+        spin_word = "clockwise" if res.spin_rad_s > 0 else "counter-clockwise"
+        fig.add_annotation(x=0.0, y=0.0, text=f"spin<br>{spin_word}", showarrow=False,
+                           font=dict(size=15, color="#ffffff"))
+        fig.add_annotation(x=0.0, y=sign * min(half * 0.85, 2.6), ax=0.0, ay=sign * 1.15,
+                           xref="x", yref="y", axref="x", ayref="y", showarrow=True, arrowhead=3,
+                           arrowsize=1.4, arrowwidth=4, arrowcolor=PALETTE[1], text="lift",
+                           font=dict(size=17, color=PALETTE[1]), bgcolor="rgba(255,255,255,0.85)")
+    fig.add_annotation(x=-half * 0.55, y=half * 0.9, ax=-half * 0.95, ay=half * 0.9,
+                       xref="x", yref="y", axref="x", ayref="y", showarrow=True, arrowhead=3,
+                       arrowsize=1.3, arrowwidth=3, arrowcolor="#ffffff", text="")
+    fig.add_annotation(x=-half * 0.75, y=half * 0.78, text="stream", showarrow=False,
+                       font=dict(size=15, color="#ffffff"))
+    _equal_axes(fig, (-half, half), (-half, half))
+    fig.update_layout(legend=dict(orientation="h", y=-0.12, x=0.0))
+    return fig
+
+
+def surface_pressure_figure(res: pot.IdealCylinderResult, n: int = 361) -> go.Figure:
+    """Cp round the surface against angle, with the no-spin curve for comparison."""
+    theta_deg = np.linspace(0.0, 360.0, n)
+    th = np.radians(theta_deg)
+    cp = pot.surface_pressure_coefficient(th, res.speed_m_s, res.radius_m, res.circulation_m2_s)
+    cp0 = pot.surface_pressure_coefficient(th, res.speed_m_s, res.radius_m, 0.0)
+    fig = base_figure("Pressure round the surface: where the suction is",
+                      "angle from the rear point, counter-clockwise [°] (90 top, 180 front, 270 bottom)",
+                      "pressure coefficient Cp [-]")
+    fig.add_trace(go.Scatter(x=theta_deg, y=cp0, name="no spin", mode="lines",
+                             line=dict(color="#888888", width=2.5, dash="dash")))
+    fig.add_trace(go.Scatter(x=theta_deg, y=cp, name=f"spin ratio {res.spin_ratio:.3g}", mode="lines",
+                             line=dict(color=PALETTE[0], width=4)))
+    if res.stagnation_on_surface:
+        fig.add_trace(go.Scatter(x=list(res.stagnation_angles_deg), y=[1.0] * len(res.stagnation_angles_deg),
+                                 mode="markers", name="stagnation point (Cp = 1)",
+                                 marker=dict(symbol="x-thin", size=18, color=PALETTE[1],
+                                             line=dict(width=4, color=PALETTE[1]))))
+    fig.update_xaxes(tickvals=[0, 45, 90, 135, 180, 225, 270, 315, 360], range=[0, 360])
+    fig.update_layout(legend=dict(orientation="h", y=-0.25, x=0.0), margin=dict(b=110))
+    return fig
+
+
+def pressure_check_figure(res: pot.IdealCylinderResult) -> go.Figure:
+    """Lift and drag coefficients from the pressure integral beside Kutta-Joukowski."""
+    fig = base_figure("Check: the surface-pressure integral gives the Kutta-Joukowski lift and no drag",
+                      "", "coefficient on the diameter [-]")
+    labels = ["lift: Kutta-Joukowski<br>Γ / (R V)", "lift: surface-pressure<br>integral",
+              "drag: surface-pressure<br>integral"]
+    vals = [res.lift_coefficient, res.lift_coefficient_from_pressure, res.drag_coefficient_from_pressure]
+    fig.add_trace(go.Bar(x=labels, y=vals, marker_color=[PALETTE[0], PALETTE[2], PALETTE[1]],
+                         text=[f"{v:.6g}" for v in vals], textposition="outside",
+                         textfont=dict(size=18), cliponaxis=False, showlegend=False,
+                         hovertemplate="%{x}: %{y:.10g}<extra></extra>"))
+    diff = res.pressure_lift_relative_difference
+    fig.add_annotation(xref="paper", yref="paper", x=0.99, y=0.98, xanchor="right", yanchor="top",
+                       showarrow=False, align="right", font=dict(size=16),
+                       bgcolor="rgba(255,255,255,0.9)",
+                       text=(f"lift difference: {diff:.1e} (relative)<br>"
+                             f"drag: {res.drag_coefficient_from_pressure:.1e}<br>"
+                             "both are round-off"))
+    top = max(abs(res.lift_coefficient), 1.0)
+    fig.update_yaxes(range=[-0.15 * top if res.lift_coefficient >= 0 else -1.25 * top,
+                            1.25 * top if res.lift_coefficient >= 0 else 0.15 * top],
+                     zeroline=True, zerolinecolor="#444")
+    return fig
+
+
+def ideal_lift_figure(res: pot.IdealCylinderResult) -> go.Figure:
+    """The ideal line CL = 2 pi SR, this case on it, and a plain note on real cylinders."""
+    top = max(4.0, 1.25 * abs(res.spin_ratio))
+    sr = np.linspace(-top if res.spin_ratio < 0 else 0.0, top, 201)
+    fig = base_figure("Ideal lift coefficient CL = 2π SR (real cylinders fall far below it)",
+                      "spin ratio SR = ωR / V [-]", "lift coefficient CL on the diameter [-]")
+    fig.add_trace(go.Scatter(x=sr, y=pot.lift_coefficient_ideal(sr), mode="lines",
+                             name="ideal flow, no-slip circulation", line=dict(color=PALETTE[0], width=4)))
+    fig.add_trace(go.Scatter(x=[res.spin_ratio], y=[res.lift_coefficient], mode="markers",
+                             name="this case", marker=dict(size=16, color=PALETTE[1],
+                                                           line=dict(width=2, color="#000"))))
+    for s2 in ([2.0, -2.0] if res.spin_ratio < 0 else [2.0]):
+        fig.add_vline(x=s2, line=dict(color="#777", dash="dot", width=2))
+    fig.add_annotation(x=2.0, yref="paper", y=0.02, xanchor="left", yanchor="bottom", showarrow=False,
+                       text=" SR = 2: stagnation points<br> meet and leave the surface",
+                       font=dict(size=14, color="#444"))
+    fig.add_annotation(xref="paper", yref="paper", x=0.02, y=0.98, xanchor="left", yanchor="top",
+                       showarrow=False, align="left", bgcolor="rgba(255,255,255,0.9)",
+                       bordercolor=PALETTE[1], borderwidth=2, font=dict(size=15),
+                       text=("Real cylinders separate: the boundary layer leaves the surface,<br>"
+                             "so measured lift coefficients fall far below this line and<br>"
+                             "level off. Use measured coefficients for real forces."))
+    fig.update_layout(legend=dict(orientation="h", y=-0.18, x=0.0), margin=dict(b=100))
+    return fig
+
+
+# ----------------------------------------------------------------------------- measured field
+def _stride(n: int, target: int) -> int:
+    return max(1, int(math.ceil(n / target)))
+
+
+def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19) -> go.Figure:
+    """Speed colour map of the field with arrows, the body and the integration loops."""
+    from liftcore.fieldcirc import loop_family
+
+    sx, sy = _stride(field.x_m.size, max_cells), _stride(field.y_m.size, max_cells)
+    xs, ys = field.x_m[::sx], field.y_m[::sy]
+    speed = np.hypot(field.u_m_s, field.v_m_s)[::sx, ::sy].T
+    fig = base_figure("The velocity field and the loops round the body", "x [m]", "y [m]", height=620)
+    fig.add_trace(go.Heatmap(x=xs, y=ys, z=speed.astype(np.float32), colorscale=SEQUENTIAL, name="speed",
+                             colorbar=dict(title=dict(text="speed<br>[m/s]"), thickness=18),
+                             hovertemplate="x %{x:.4g} m, y %{y:.4g} m<br>speed %{z:.3g} m/s<extra></extra>"))
+    ax, ay = _stride(field.x_m.size, arrows), _stride(field.y_m.size, arrows)
+    gx, gy = np.meshgrid(field.x_m[::ax], field.y_m[::ay], indexing="ij")
+    gu, gv = field.u_m_s[::ax, ::ay], field.v_m_s[::ax, ::ay]
+    x0, x1, y0, y1 = field.extent_m
+    cell = min((x1 - x0) / max(gx.shape[0], 1), (y1 - y0) / max(gx.shape[1], 1))
+    vmax = float(np.max(np.hypot(gu, gv))) or 1.0
+    scale = 0.9 * cell / vmax
+    tipx, tipy = gx + scale * gu, gy + scale * gv
+    nan = np.full(gx.size, np.nan)
+    lx = np.column_stack([gx.ravel(), tipx.ravel(), nan]).ravel()
+    ly = np.column_stack([gy.ravel(), tipy.ravel(), nan]).ravel()
+    fig.add_trace(go.Scatter(x=lx, y=ly, mode="lines", line=dict(color="#ffffff", width=1.5),
+                             name="velocity (arrows)", hoverinfo="skip"))
+    ang = 90.0 - np.degrees(np.arctan2(gv.ravel(), gu.ravel()))
+    fig.add_trace(go.Scatter(x=tipx.ravel(), y=tipy.ravel(), mode="markers", showlegend=False,
+                             hoverinfo="skip", marker=dict(symbol="triangle-up", size=7, angle=ang,
+                                                           color="#ffffff")))
+    loops = loop_family(res.loop_shape, res.body_centre_m, res.loop_sizes_m,
+                        min(field.spacing_m), res.rectangle_aspect)
+    shown = {True: False, False: False}
+    for lp, settled in zip(loops, res.settled):
+        ox, oy = lp.outline()
+        fig.add_trace(go.Scatter(
+            x=ox, y=oy, mode="lines", hoverinfo="skip",
+            name="loop counted in the estimate" if settled else "loop not counted (too close)",
+            legendgroup=str(settled), showlegend=not shown[settled],
+            line=dict(color=PALETTE[4] if settled else "#dddddd", width=3 if settled else 2,
+                      dash="solid" if settled else "dot")))
+        shown[settled] = True
+    bx, by = res.body_centre_m
+    _body(fig, bx, by, res.body_radius_m)
+    _equal_axes(fig, (x0, x1), (y0, y1))
+    fig.update_layout(legend=dict(orientation="h", y=-0.14, x=0.0), margin=dict(b=110))
+    return fig
+
+
+def circulation_figure(res) -> go.Figure:
+    """Circulation against loop size, with the estimate and its loop-to-loop spread."""
+    sizes = np.asarray(res.loop_sizes_m)
+    gam = np.asarray(res.circulations_m2_s)
+    settled = np.asarray(res.settled)
+    fig = base_figure("Does the circulation settle as the loop grows?",
+                      "loop size (circle radius or rectangle half-height) [m]", "circulation Γ [m²/s]")
+    xs = sizes[settled]
+    band(fig, [xs.min(), xs.max()], [res.circulation_m2_s - res.circulation_spread_m2_s] * 2,
+         [res.circulation_m2_s + res.circulation_spread_m2_s] * 2, "loop-to-loop spread", PALETTE[4], 0.3)
+    fig.add_trace(go.Scatter(x=[xs.min(), xs.max()], y=[res.circulation_m2_s] * 2, mode="lines",
+                             name=f"estimate {res.circulation_m2_s:.4g} m²/s",
+                             line=dict(color=PALETTE[1], width=3, dash="dash")))
+    fig.add_trace(go.Scatter(x=sizes, y=gam, mode="lines+markers", name="each loop",
+                             line=dict(color=PALETTE[0], width=3),
+                             marker=dict(size=11, color=[PALETTE[0] if s else "#ffffff" for s in settled],
+                                         line=dict(width=2, color=PALETTE[0])),
+                             hovertemplate="size %{x:.4g} m<br>Γ %{y:.5g} m²/s<extra></extra>"))
+    fig.add_vline(x=res.body_radius_m, line=dict(color=BODY_LINE, width=2, dash="dot"))
+    fig.add_annotation(x=res.body_radius_m, yref="paper", y=0.02, xanchor="left", showarrow=False,
+                       text=" body radius", font=dict(size=14, color=BODY_LINE))
+    lo = min(gam.min(), res.circulation_m2_s - res.circulation_spread_m2_s)
+    hi = max(gam.max(), res.circulation_m2_s + res.circulation_spread_m2_s)
+    pad = max(0.05 * abs(res.circulation_m2_s), 0.5 * (hi - lo), 1e-9)
+    fig.update_yaxes(range=[lo - pad, hi + pad])
+    fig.update_xaxes(range=[0.0, float(sizes.max()) * 1.05])
+    fig.update_layout(legend=dict(orientation="h", y=-0.2, x=0.0), margin=dict(b=110))
+    return fig
