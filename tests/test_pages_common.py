@@ -12,6 +12,7 @@ from streamlit.runtime.media_file_manager import MediaFileManager
 from streamlit.testing.v1 import AppTest
 
 from liftcore import scenario as sc
+from liftcore import units
 from liftcore.studies import STUDY_MODULES, run_study, study
 from tests import demo_study
 from views import PAGES
@@ -76,8 +77,9 @@ def metrics(at) -> list[str]:
 
 
 def state_values(at, kind: str, spec) -> dict:
-    return {f.key: at.session_state[f"{kind}:{f.key}"] for f in spec.fields
-            if f"{kind}:{f.key}" in at.session_state}
+    """Every input as the page holds it (inputs never drawn, e.g. hidden ones, at their default)."""
+    return {f.key: at.session_state[f"{kind}:{f.key}"] if f"{kind}:{f.key}" in at.session_state
+            else f.default for f in spec.fields}
 
 
 def shown(kind, values, system):
@@ -339,3 +341,109 @@ def test_compare_page_loads_comparison_and_scenario_files():
 STUDY_PAGES = [(f, k) for f, _, k, _ in PAGES if k in STUDY_MODULES and
                importlib.util.find_spec(f"liftcore.studies.{STUDY_MODULES[k]}") and
                "page_tools" in (ROOT / f).read_text()]
+
+
+def page_app(page_file: str, params: dict | None = None) -> AppTest:
+    at = AppTest.from_file(str(ROOT / "app.py"), default_timeout=TIMEOUT)
+    for k, v in (params or {}).items():
+        at.query_params[k] = v
+    at.switch_page(page_file)
+    return at
+
+
+def visible_changes(at, kind: str) -> list:
+    """Up to three number inputs visible on the page, each moved to another value the study accepts."""
+    from liftcore.errors import InputError
+
+    spec = study(kind).INPUTS
+    values = state_values(at, kind, spec)
+    out = []
+    for f in spec.fields:
+        if f.kind != "number" or len(out) == 3:
+            continue
+        key = f"w:{kind}:{f.key}:SI"
+        try:
+            w = at.number_input(key=key)
+        except KeyError:
+            continue
+        v = w.value
+        candidates = [v * 1.1, v * 0.9, v + 1.0, v - 1.0] if v else [0.1, 1.0, -0.1]
+        for new in (float(f"{c:.4g}") for c in candidates):
+            if new == v or (w.min is not None and new < w.min) or (w.max is not None and new > w.max):
+                continue
+            trial = {**values, f.key: float(units.from_display(new, f.quantity, "SI"))}
+            try:
+                run_study(kind, trial)
+            except InputError:
+                continue
+            values = trial
+            out.append(("number", key, new))
+            break
+    return out
+
+
+def apply_changes(at, changes):
+    for _, key, value in changes:
+        at.number_input(key=key).set_value(value).run()
+        assert not at.exception, at.exception
+
+
+@pytest.mark.parametrize("page_file, kind", STUDY_PAGES, ids=[k for _, k in STUDY_PAGES])
+def test_page_round_trips_through_a_scenario_file_and_a_share_link(page_file, kind, downloads):
+    spec = study(kind).INPUTS
+    a = page_app(page_file)
+    a.run()
+    assert not a.exception, a.exception
+    changes = visible_changes(a, kind)
+    assert changes, "no number input found to change"
+    apply_changes(a, changes)
+    a.segmented_control(key="unit_system").set_value("imperial").run()
+    values_a, metrics_a = state_values(a, kind, spec), metrics(a)
+    assert values_a != spec.defaults()
+    assert metrics_a == shown(kind, values_a, "imperial")
+    text = downloads(".toml")
+    params = {k: v[0] if isinstance(v, list) else v for k, v in a.query_params.items()}
+    assert params["v"] == "1" and params["units"] == "imperial"
+
+    b = page_app(page_file)  # a fresh session loads the file through the page's upload control
+    b.run()
+    b.file_uploader(key=f"_lc:upload0:{kind}").set_value((f"{kind}.toml", text.encode(), "application/toml")).run()
+    assert not b.exception, b.exception
+    assert state_values(b, kind, spec) == values_a
+    assert b.session_state["unit_system"] == "imperial"
+    assert metrics(b) == metrics_a
+
+    c = page_app(page_file, params)  # and another one opens the share link
+    c.run()
+    assert not c.exception, c.exception
+    assert state_values(c, kind, spec) == values_a
+    assert metrics(c) == metrics_a
+
+
+@pytest.mark.parametrize("page_file, kind", STUDY_PAGES, ids=[k for _, k in STUDY_PAGES])
+def test_page_units_switch_keeps_inputs_and_converts_headlines(page_file, kind):
+    spec = study(kind).INPUTS
+    at = page_app(page_file)
+    at.run()
+    apply_changes(at, visible_changes(at, kind)[:1])
+    exact = state_values(at, kind, spec)
+    for system in ("marine", "imperial", "SI"):
+        at.segmented_control(key="unit_system").set_value(system).run()
+        assert not at.exception, at.exception
+        assert state_values(at, kind, spec) == exact
+        assert metrics(at) == shown(kind, exact, system)
+
+
+@pytest.mark.parametrize("page_file, kind", STUDY_PAGES, ids=[k for _, k in STUDY_PAGES])
+def test_page_loads_its_demo_scenarios(page_file, kind):
+    files = [p for p in sorted((ROOT / "scenarios").glob("*.toml"))
+             if isinstance(sc.load_document(p), sc.Scenario) and sc.load_document(p).kind == kind]
+    assert files, f"no demo scenario of kind {kind} in scenarios/"
+    at = page_app(page_file)
+    at.run()
+    for n, path in enumerate(files):
+        doc = sc.load_document(path)
+        at.file_uploader(key=f"_lc:upload{n}:{kind}").set_value((path.name, path.read_bytes(), "application/toml")).run()
+        assert not at.exception, at.exception
+        assert state_values(at, kind, study(kind).INPUTS) == doc.inputs
+        assert metrics(at) == shown(kind, doc.inputs, doc.unit_system)
