@@ -1,0 +1,117 @@
+"""``liftcore flight``: carry, peak height, time aloft and drift of a spinning ball.
+
+Runs the same study as the dashboard page (``liftcore.studies.flight``), so the numbers agree.
+"""
+
+from __future__ import annotations
+
+from liftcore.balls import BALL_KEYS, MODEL_KEYS
+from liftcore.cli import add_json_flag
+from liftcore.cli.common import add_air_options, density_from_args, text_table
+from liftcore.errors import check_choice, check_number
+from liftcore.studies import run_study
+
+
+def add_parser(sub):
+    p = sub.add_parser(
+        "flight", help="flight of a spinning ball: carry, peak height, drift, landing",
+        description="Flight of a spinning ball with drag, Magnus lift, spin decay, wind and air state. "
+                    "x downrange, drift and angles right-positive. Results are for analysis, not for "
+                    "safety distances.")
+    g = p.add_argument_group("ball")
+    g.add_argument("--ball", required=True, metavar="NAME", help=f"one of {', '.join(BALL_KEYS)}")
+    g.add_argument("--model", metavar="KEY", help=f"coefficient model ({', '.join(MODEL_KEYS)}); default: the ball's own")
+    g.add_argument("--diameter-m", type=float, help="diameter of a custom ball [m]")
+    g.add_argument("--mass-kg", type=float, help="mass of a custom ball [kg]")
+    g.add_argument("--cd", type=float, help="drag coefficient for --model constant")
+    g.add_argument("--cl", type=float, help="lift coefficient for --model constant")
+    g = p.add_argument_group("launch")
+    g.add_argument("--speed-m-s", type=float, required=True, help="launch speed [m/s]")
+    g.add_argument("--elevation-deg", type=float, required=True, help="elevation above horizontal, -90..90 [deg]")
+    g.add_argument("--spin-rpm", type=float, required=True, help="spin rate [rpm]")
+    g.add_argument("--spin-axis-deg", type=float, default=0.0,
+                   help="spin-axis tilt, right +: 0 backspin, 90 curves right, 180 topspin [deg]")
+    g.add_argument("--rifle-deg", type=float, default=0.0, help="axis toward the flight direction, 0..90 [deg]")
+    g.add_argument("--azimuth-deg", type=float, default=0.0, help="aim right of the target line + [deg]")
+    g.add_argument("--launch-height-m", type=float, default=1.0, help="height above the landing ground [m]")
+    g.add_argument("--no-spin-decay", action="store_true", help="keep the spin rate constant")
+    add_air_options(p, density=True)
+    g = p.add_argument_group("wind")
+    g.add_argument("--wind-speed-m-s", type=float, default=0.0, help="wind speed [m/s]")
+    g.add_argument("--wind-from-deg", type=float, default=0.0,
+                   help="wind comes from, clockwise from downrange: 0 into the face, 180 from behind [deg]")
+    g.add_argument("--wind-profile", default="uniform", help="uniform or power_law")
+    g = p.add_argument_group("launch spread")
+    g.add_argument("--dispersion", type=int, default=0, metavar="N", help="fly N flights with drawn launch conditions")
+    g.add_argument("--seed", type=int, default=1, help="random seed for --dispersion")
+    add_json_flag(p)
+    return p
+
+
+def values_from_args(args) -> dict:
+    """Study inputs (core units) from the command-line options, checked with one-line errors."""
+    check_choice("ball", args.ball, BALL_KEYS)
+    check_number("speed-m-s", args.speed_m_s, "m/s", low=0.0, high=150.0)
+    check_number("elevation-deg", args.elevation_deg, "deg", low=-90.0, high=90.0)
+    check_number("spin-rpm", args.spin_rpm, "rpm", low=0.0, high=20000.0)
+    check_number("spin-axis-deg", args.spin_axis_deg, "deg", low=-180.0, high=180.0)
+    check_number("rifle-deg", args.rifle_deg, "deg", low=0.0, high=90.0)
+    check_number("azimuth-deg", args.azimuth_deg, "deg", low=-90.0, high=90.0)
+    check_number("launch-height-m", args.launch_height_m, "m", low=0.0, high=100.0)
+    check_number("wind-speed-m-s", args.wind_speed_m_s, "m/s", low=0.0, high=40.0)
+    check_number("wind-from-deg", args.wind_from_deg, "deg", low=-180.0, high=180.0)
+    check_choice("wind-profile", args.wind_profile, ("uniform", "power_law"))
+    check_number("dispersion", args.dispersion, "", low=0, high=100000)
+    check_number("seed", args.seed, "", low=0, high=2 ** 31 - 1)
+    rho, air = density_from_args(args, allow_zero=True)
+    values = {
+        "ball": args.ball, "speed_m_s": args.speed_m_s, "elevation_deg": args.elevation_deg,
+        "spin_rpm": args.spin_rpm, "spin_axis_deg": args.spin_axis_deg, "rifle_deg": args.rifle_deg,
+        "azimuth_deg": args.azimuth_deg, "launch_height_m": args.launch_height_m,
+        "spin_decay": not args.no_spin_decay,
+        "air_mode": "measured", "altitude_m": args.altitude_m or 0.0, "temperature_k": air.temperature_k,
+        "pressure_pa": air.pressure_pa, "relative_humidity_pct": 100.0 * air.relative_humidity,
+        "wind_speed_m_s": args.wind_speed_m_s, "wind_from_deg": args.wind_from_deg,
+        "wind_profile": args.wind_profile, "dispersion_n": args.dispersion, "dispersion_seed": args.seed,
+    }
+    if args.density_kg_m3 is not None:
+        values["set_density"] = True
+        values["density_kg_m3"] = rho
+    if args.model is not None:
+        check_choice("model", args.model, MODEL_KEYS)
+        values["coefficient_model"] = args.model
+    if args.ball == "custom":
+        check_number("diameter-m", args.diameter_m, "m", low=0.01, high=0.4)
+        check_number("mass-kg", args.mass_kg, "kg", low=0.0005, high=2.0)
+        values["custom_diameter_m"] = args.diameter_m
+        values["custom_mass_kg"] = args.mass_kg
+    if args.cd is not None:
+        values["constant_cd"] = check_number("cd", args.cd, "", low=0.0, high=3.0)
+    if args.cl is not None:
+        values["constant_cl"] = check_number("cl", args.cl, "", low=-1.0, high=3.0)
+    return values
+
+
+def execute(args, progress):
+    values = values_from_args(args)
+    result = run_study("flight", values, progress=progress if args.dispersion > 0 else None)
+    js = result.json
+    data = {k: js[k] for k in ("carry_m", "peak_height_m", "flight_time_s", "lateral_m",
+                               "descent_angle_deg", "landing_speed_m_s", "warnings")}
+    data.update({k: js[k] for k in ("ball", "coefficient_model", "air_density_kg_m3", "landing_spin_rpm")})
+    rows = [("Ball", f"{result.detail.setup.ball.name} ({result.detail.setup.model.label()})"),
+            ("Air density", f"{js['air_density_kg_m3']:.4f} kg/m3"),
+            ("Carry", f"{js['carry_m']:.2f} m"), ("Peak height", f"{js['peak_height_m']:.2f} m"),
+            ("Time aloft", f"{js['flight_time_s']:.2f} s"),
+            ("Drift (right +)", f"{js['lateral_m']:.2f} m"),
+            ("Descent angle", f"{js['descent_angle_deg']:.1f} deg"),
+            ("Speed at landing", f"{js['landing_speed_m_s']:.2f} m/s")]
+    if "dispersion" in js:
+        d = js["dispersion"]
+        data["dispersion"] = d
+        rows += [("Flights drawn", f"{d['n']}"),
+                 ("Carry P05 / P50 / P95", f"{d['carry_m_p05']:.2f} / {d['carry_m_p50']:.2f} / {d['carry_m_p95']:.2f} m"),
+                 ("Drift sd", f"{d['lateral_m_sd']:.2f} m")]
+    rows += [("Warning", w["message"]) for w in js["warnings"]]
+    rows += [("Caution", "results are for analysis, not for safety distances")]
+    return data, text_table(rows)

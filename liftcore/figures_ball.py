@@ -1,0 +1,191 @@
+"""Charts for ball flight: trajectory (3-D, side, top), values along the flight, landing spread,
+sweep heat map, coefficient curves and track-fit residuals.
+
+Every builder takes core (SI) results and a unit system, converts at the edge through
+:mod:`liftcore.units`, and starts from :func:`liftcore.figures.base_figure`.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import plotly.graph_objects as go
+
+from liftcore import units
+from liftcore.figures import LINE_WIDTH, SEQUENTIAL, base_figure, colour
+
+AXIS_WORDS = {"x_m": "Downrange", "lateral_m": "Drift (right +)", "z_m": "Height"}
+
+
+def _u(value, kind, system):
+    return units.to_display(value, kind, system)
+
+
+def _lbl(text, kind, system):
+    u = units.unit_label(kind, system)
+    return f"{text} [{u}]" if u else text
+
+
+def trajectory_3d(flights, system: str = "SI") -> go.Figure:
+    """Where does the ball go? 3-D path of each flight (x downrange, drift right +, height)."""
+    fig = base_figure("Flight path in 3-D", height=560)
+    for i, f in enumerate(flights):
+        p = f.path
+        fig.add_trace(go.Scatter3d(
+            x=_u(p["x_m"], "distance", system), y=_u(p["lateral_m"], "distance", system),
+            z=_u(p["z_m"], "length", system), mode="lines", name=f.label,
+            line=dict(width=7, color=colour(i))))
+        fig.add_trace(go.Scatter3d(
+            x=[_u(f.carry_m, "distance", system)], y=[_u(f.lateral_m, "distance", system)], z=[0.0],
+            mode="markers", marker=dict(size=6, color=colour(i), symbol="diamond"),
+            name=f"{f.label}: landing", showlegend=False))
+    fig.update_layout(scene=dict(
+        xaxis_title=_lbl("Downrange", "distance", system),
+        yaxis_title=_lbl("Drift, right +", "distance", system),
+        zaxis_title=_lbl("Height", "length", system), aspectmode="data",
+        camera=dict(eye=dict(x=-1.4, y=-1.6, z=0.8))),
+        margin=dict(l=0, r=0, t=60, b=0))
+    return fig
+
+
+def side_view(flights, system: str = "SI") -> go.Figure:
+    """How high and how far? Height against distance downrange."""
+    fig = base_figure("Side view: height against distance", _lbl("Downrange", "distance", system),
+                      _lbl("Height", "length", system), height=420)
+    for i, f in enumerate(flights):
+        p = f.path
+        fig.add_trace(go.Scatter(x=_u(p["x_m"], "distance", system), y=_u(p["z_m"], "length", system),
+                                 mode="lines", name=f.label, line=dict(width=LINE_WIDTH, color=colour(i))))
+        k = int(np.argmax(p["z_m"]))
+        fig.add_trace(go.Scatter(x=[_u(p["x_m"][k], "distance", system)], y=[_u(p["z_m"][k], "length", system)],
+                                 mode="markers", marker=dict(size=10, color=colour(i)), showlegend=False,
+                                 hovertemplate="peak %{y:.1f}<extra></extra>"))
+    fig.update_yaxes(rangemode="tozero")
+    return fig
+
+
+def top_view(flights, system: str = "SI") -> go.Figure:
+    """How much does it curve? Drift to the side against distance downrange (seen from above)."""
+    fig = base_figure("Top view: drift against distance", _lbl("Downrange", "distance", system),
+                      _lbl("Drift, right +", "distance", system), height=420)
+    for i, f in enumerate(flights):
+        p = f.path
+        fig.add_trace(go.Scatter(x=_u(p["x_m"], "distance", system), y=_u(p["lateral_m"], "distance", system),
+                                 mode="lines", name=f.label, line=dict(width=LINE_WIDTH, color=colour(i))))
+    fig.add_hline(y=0, line=dict(color="#777", width=1, dash="dot"))
+    # right positive reads naturally with "right" drawn downward when looking downrange from above
+    fig.update_yaxes(autorange="reversed")
+    return fig
+
+
+def along_flight(flights, system: str = "SI") -> go.Figure:
+    """How do speed, spin and spin parameter change during the flight?"""
+    fig = base_figure("Speed, spin and spin parameter along the flight", height=640)
+    fig.set_subplots(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.06)
+    for i, f in enumerate(flights):
+        p = f.path
+        c = colour(i)
+        fig.add_trace(go.Scatter(x=p["t_s"], y=_u(p["speed_m_s"], "ball_speed", system), name=f.label,
+                                 line=dict(width=LINE_WIDTH, color=c), legendgroup=f.label), row=1, col=1)
+        fig.add_trace(go.Scatter(x=p["t_s"], y=p["spin_rpm"], name=f.label, showlegend=False,
+                                 line=dict(width=LINE_WIDTH, color=c), legendgroup=f.label), row=2, col=1)
+        fig.add_trace(go.Scatter(x=p["t_s"], y=p["spin_parameter"], name=f.label, showlegend=False,
+                                 line=dict(width=LINE_WIDTH, color=c), legendgroup=f.label), row=3, col=1)
+    fig.update_yaxes(title_text=_lbl("Speed", "ball_speed", system), row=1, col=1)
+    fig.update_yaxes(title_text="Spin [rpm]", row=2, col=1)
+    fig.update_yaxes(title_text="Spin parameter S", row=3, col=1)
+    fig.update_xaxes(title_text="Time [s]", row=3, col=1)
+    for r in (1, 2, 3):
+        fig.update_xaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5", row=r, col=1)
+        fig.update_yaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5", row=r, col=1)
+    return fig
+
+
+def coefficient_curves(model, flight, system: str = "SI") -> go.Figure:
+    """Which drag and lift did the flight use? CD and CL met along the flight, against S."""
+    fig = base_figure(f"Coefficients met in flight ({model.title})", "Spin parameter S",
+                      "Coefficient", height=420)
+    p = flight.path
+    fig.add_trace(go.Scatter(x=p["spin_parameter"], y=p["cd"], mode="lines+markers", name="CD (drag)",
+                             marker=dict(size=4), line=dict(width=LINE_WIDTH, color=colour(0))))
+    fig.add_trace(go.Scatter(x=p["spin_parameter"], y=p["cl"], mode="lines+markers", name="CL (lift)",
+                             marker=dict(size=4), line=dict(width=LINE_WIDTH, color=colour(1))))
+    lo, hi = model.s_range
+    if np.isfinite(hi):
+        fig.add_vrect(x0=lo, x1=hi, fillcolor="#009E73", opacity=0.08, line_width=0,
+                      annotation_text="model's S range", annotation_position="top left")
+    return fig
+
+
+def dispersion_figure(disp, system: str = "SI", title: str = "Where do the balls land?") -> go.Figure:
+    """Landing points of the drawn flights with the 95 % ellipse and the mean (seen from above)."""
+    fig = base_figure(title, _lbl("Downrange", "distance", system), _lbl("Drift, right +", "distance", system),
+                      height=520)
+    n_show = min(disp.n, 5000)
+    fig.add_trace(go.Scattergl(x=_u(disp.carry_m[:n_show], "distance", system),
+                               y=_u(disp.lateral_m[:n_show], "distance", system), mode="markers",
+                               name=f"landings ({n_show:,} shown)" if n_show < disp.n else "landings",
+                               marker=dict(size=5, color=colour(0), opacity=0.45)))
+    e = disp.ellipse_95
+    fig.add_trace(go.Scatter(x=_u(e["x"], "distance", system), y=_u(e["y"], "distance", system), mode="lines",
+                             name="95 % ellipse (normal fit)", line=dict(width=LINE_WIDTH, color=colour(1))))
+    fig.add_trace(go.Scatter(x=[_u(disp.mean_m[0], "distance", system)], y=[_u(disp.mean_m[1], "distance", system)],
+                             mode="markers", name="mean", marker=dict(size=14, symbol="x", color=colour(6))))
+    fig.update_yaxes(autorange="reversed", scaleanchor="x", scaleratio=1)
+    return fig
+
+
+def carry_histogram(disp, system: str = "SI") -> go.Figure:
+    """How is carry spread? Histogram with the 5th, 50th and 95th percentiles."""
+    fig = base_figure("Spread of carry", _lbl("Carry", "distance", system), "Flights", height=380)
+    fig.add_trace(go.Histogram(x=_u(disp.carry_m, "distance", system), nbinsx=50, name="carry",
+                               marker_color=colour(0), showlegend=False))
+    for p, dash in ((5, "dot"), (50, "solid"), (95, "dot")):
+        v = _u(disp.carry_percentiles_m[p], "distance", system)
+        fig.add_vline(x=v, line=dict(color=colour(1), width=2.5, dash=dash),
+                      annotation_text=f"P{p:02d}", annotation_position="top")
+    return fig
+
+
+def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI") -> go.Figure:
+    """Which launch gives the most? The output over the grid of two inputs, best point marked."""
+    xl, xk = labels[sw.x_key]
+    yl, yk = labels[sw.y_key]
+    z = _u(sw.grid, output_kind, system)
+    fig = base_figure(f"{output_label} over {xl.lower()} and {yl.lower()}", _lbl(xl, xk, system),
+                      _lbl(yl, yk, system), height=520)
+    fig.add_trace(go.Heatmap(x=_u(sw.x_values, xk, system), y=_u(sw.y_values, yk, system), z=z,
+                             colorscale=SEQUENTIAL,
+                             colorbar=dict(title=dict(text=_lbl(output_label, output_kind, system), side="right"))))
+    word = "highest" if sw.maximise else "lowest"
+    fig.add_trace(go.Scatter(x=[_u(sw.best_x, xk, system)], y=[_u(sw.best_y, yk, system)], mode="markers+text",
+                             marker=dict(size=18, symbol="star", color="#D55E00", line=dict(width=2, color="white")),
+                             text=[f"{word}"], textposition="top center", textfont=dict(color="white", size=16),
+                             name=f"{word} on the grid"))
+    fig.update_layout(legend=dict(x=0, y=-0.2, orientation="h"))
+    return fig
+
+
+def fit_residuals(fit, system: str = "SI") -> go.Figure:
+    """How well does the fitted model follow the tracks? Distance between model and observation."""
+    fig = base_figure("Fit residuals: model minus observed position", "Time [s]",
+                      _lbl("Residual distance", "length", system), height=420)
+    for i, name in enumerate(fit.flights):
+        r = fit.residuals[fit.residuals["flight"] == name]
+        fig.add_trace(go.Scatter(x=r["t"], y=_u(r["distance"].to_numpy(), "length", system), mode="markers",
+                                 name=name, marker=dict(size=6, color=colour(i))))
+    fig.update_yaxes(rangemode="tozero")
+    return fig
+
+
+def fit_tracks_side(fit, tracks, system: str = "SI") -> go.Figure:
+    """Observed positions (markers) and the fitted flights (lines), side view."""
+    fig = base_figure("Tracked and fitted flights (side view)", _lbl("Downrange", "distance", system),
+                      _lbl("Height", "length", system), height=420)
+    for i, name in enumerate(fit.flights):
+        o = tracks[tracks["flight"].astype(str) == name]
+        m = fit.fitted[fit.fitted["flight"] == name]
+        fig.add_trace(go.Scatter(x=_u(o["x"].to_numpy(), "distance", system), y=_u(o["z"].to_numpy(), "length", system),
+                                 mode="markers", name=f"{name} observed", marker=dict(size=6, color=colour(i), opacity=0.6)))
+        fig.add_trace(go.Scatter(x=_u(m["x"].to_numpy(), "distance", system), y=_u(m["z"].to_numpy(), "length", system),
+                                 mode="lines", name=f"{name} fitted", line=dict(width=LINE_WIDTH, color=colour(i))))
+    return fig

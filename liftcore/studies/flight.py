@@ -1,0 +1,279 @@
+"""Study: the flight of a spinning ball (carry, peak height, time aloft, drift, landing).
+
+One launch, optionally a second flight for comparison (another altitude, ball, spin, speed, or no
+air) and a landing spread from launch conditions drawn at random. The page's sweep and fit tools
+call :mod:`liftcore.ballflight` directly with the same setup built here.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+import pandas as pd
+
+from liftcore import ballflight as bf
+from liftcore import figures_ball as fb
+from liftcore.air import air_inputs, air_state, air_state_from_inputs
+from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
+from liftcore.inputs import InputSpec, choice, flag, integer, number
+from liftcore.studies import Headline, StudyResult
+from liftcore.validity import ModelWarning, merge
+
+KIND = "flight"
+TITLE = "Spinning ball flight"
+
+_BALL_LABELS = tuple(BALLS[k].name for k in BALL_KEYS[:-1]) + ("Custom ball (your size, mass, model)",)
+_MODEL_CHOICES = ("ball_default",) + MODEL_KEYS
+_MODEL_LABELS = ("The ball's own model",) + tuple(MODELS[k].label() for k in MODEL_KEYS)
+COMPARE_CHOICES = ("none", "altitude", "ball", "spin", "speed", "vacuum")
+COMPARE_LABELS = ("No second flight", "Same launch at another altitude", "Same launch with another ball",
+                  "Same launch with another spin rate", "Same launch at another speed",
+                  "Same launch without air")
+
+INPUTS = InputSpec(KIND, (
+    choice("ball", "Ball", BALL_KEYS, default="baseball", labels=_BALL_LABELS, section="Ball",
+           help="Size and mass from the governing body's rules; see Sources."),
+    choice("coefficient_model", "Drag and lift model", _MODEL_CHOICES, default="ball_default",
+           labels=_MODEL_LABELS, section="Ball",
+           help="Published coefficient model; '(from memory)' marks formulas not checked against the paper."),
+    number("custom_diameter_m", "Custom ball diameter", "small_length", 0.07, 0.01, 0.4, section="Ball",
+           help="Used only for a custom ball."),
+    number("custom_mass_kg", "Custom ball mass", "small_mass", 0.15, 0.0005, 2.0, section="Ball",
+           help="Used only for a custom ball."),
+    number("constant_cd", "Constant drag coefficient CD", "ratio", 0.35, 0.0, 3.0, section="Ball", step=0.01,
+           help="Used only with the constant-coefficient model."),
+    number("constant_cl", "Constant lift coefficient CL", "ratio", 0.20, -1.0, 3.0, section="Ball", step=0.01,
+           help="Used only with the constant-coefficient model (lift acts only while the ball spins)."),
+    number("cd_scale", "Drag scale factor", "ratio", 1.0, 0.0, 5.0, section="Ball", step=0.01, advanced=True,
+           help="Multiplies the model's CD (e.g. a factor fitted to tracked flights)."),
+    number("cl_scale", "Lift scale factor", "ratio", 1.0, -5.0, 5.0, section="Ball", step=0.01, advanced=True,
+           help="Multiplies the model's CL."),
+    number("speed_m_s", "Launch speed", "ball_speed", 44.7, 0.0, 150.0, section="Launch",
+           help="Ball speed just after launch."),
+    number("elevation_deg", "Elevation", "angle", 28.0, -90.0, 90.0, section="Launch", step=0.5,
+           help="Angle above the horizontal; negative launches downward."),
+    number("azimuth_deg", "Azimuth (right +)", "angle", 0.0, -90.0, 90.0, section="Launch", step=0.5,
+           help="Horizontal angle from the target line; positive aims to the right."),
+    number("launch_height_m", "Launch height", "length", 1.0, 0.0, 100.0, section="Launch", step=0.1,
+           help="Height of the ball above the landing ground at launch."),
+    number("spin_rpm", "Spin rate", "rotation", 2000.0, 0.0, 20000.0, section="Spin", step=100.0,
+           help="Revolutions per minute at launch."),
+    number("spin_axis_deg", "Spin-axis tilt (right +)", "angle", 0.0, -180.0, 180.0, section="Spin", step=5.0,
+           help="0 backspin (lifts), 90 sidespin curving right, -90 curving left, 180 topspin (dips)."),
+    number("rifle_deg", "Rifle-spin angle", "angle", 0.0, 0.0, 90.0, section="Spin", step=5.0,
+           help="0: axis square to the flight (all spin bends the path); 90: axis along the flight (no bend)."),
+    flag("spin_decay", "Spin slows down in flight", True, section="Spin",
+         help="Spin decay model per ball (see Sources); off keeps the spin rate constant."),
+    *air_inputs("Air"),
+    flag("set_density", "Enter air density directly", False, section="Air", advanced=True,
+         help="Overrides the air state's density (0 means vacuum)."),
+    number("density_kg_m3", "Air density", "density", 1.225, 0.0, 2.0, section="Air", advanced=True, step=0.001,
+           help="Used when 'Enter air density directly' is on; 0 means vacuum."),
+    number("wind_speed_m_s", "Wind speed", "wind_speed", 0.0, 0.0, 40.0, section="Wind", step=0.5,
+           help="At the reference height."),
+    number("wind_from_deg", "Wind from", "angle", 0.0, -180.0, 180.0, section="Wind", step=5.0,
+           help="Direction the wind comes from, clockwise from downrange: 0 into the face, 90 from the "
+                "right, 180 from behind."),
+    choice("wind_profile", "Wind over height", bf.WIND_PROFILES, default="uniform",
+           labels=("Same at every height", "Power law (grows with height)"), section="Wind"),
+    number("wind_ref_height_m", "Wind reference height", "length", 10.0, 0.5, 100.0, section="Wind",
+           advanced=True, help="Height where the wind speed is given (power law)."),
+    number("wind_exponent", "Power-law exponent", "ratio", 0.143, 0.0, 0.6, section="Wind", advanced=True,
+           step=0.01, help="About 1/7 over open ground (common practice); larger over rough ground."),
+    choice("compare_with", "Second flight", COMPARE_CHOICES, default="none", labels=COMPARE_LABELS,
+           section="Second flight", help="Draw a second flight that differs in one thing."),
+    number("compare_altitude_m", "Other altitude", "altitude", 1600.0, -500.0, 5000.0, section="Second flight",
+           help="Standard atmosphere at this altitude (same humidity)."),
+    choice("compare_ball", "Other ball", BALL_KEYS[:-1], default="golf", labels=_BALL_LABELS[:-1],
+           section="Second flight"),
+    number("compare_spin_rpm", "Other spin rate", "rotation", 0.0, 0.0, 20000.0, section="Second flight",
+           step=100.0),
+    number("compare_speed_m_s", "Other launch speed", "ball_speed", 40.0, 0.0, 150.0, section="Second flight"),
+    integer("dispersion_n", "Number of flights", 0, 0, 100000, section="Launch spread",
+            help="0 switches the spread off; 1,000 to 10,000 give steady percentiles."),
+    integer("dispersion_seed", "Random seed", 1, 0, 2 ** 31 - 1, section="Launch spread",
+            help="The same seed repeats the same draws."),
+    number("sd_speed_m_s", "Spread of speed (1 sd)", "ball_speed", 1.0, 0.0, 20.0, section="Launch spread", step=0.1),
+    number("sd_elevation_deg", "Spread of elevation (1 sd)", "angle", 1.5, 0.0, 20.0, section="Launch spread", step=0.1),
+    number("sd_azimuth_deg", "Spread of azimuth (1 sd)", "angle", 1.5, 0.0, 20.0, section="Launch spread", step=0.1),
+    number("sd_spin_rpm", "Spread of spin rate (1 sd)", "rotation", 200.0, 0.0, 5000.0, section="Launch spread",
+           step=10.0),
+    number("sd_spin_axis_deg", "Spread of spin-axis tilt (1 sd)", "angle", 5.0, 0.0, 90.0,
+           section="Launch spread", step=0.5),
+))
+
+SPREAD_KEYS = ("dispersion_n", "dispersion_seed", "sd_speed_m_s", "sd_elevation_deg", "sd_azimuth_deg",
+               "sd_spin_rpm", "sd_spin_axis_deg")
+COMPARE_KEYS = ("compare_with", "compare_altitude_m", "compare_ball", "compare_spin_rpm", "compare_speed_m_s")
+
+SOURCES = (
+    "Equation of motion with drag, Magnus lift and gravity; spin parameter S = r omega / |v_rel|, "
+    "Reynolds number Re = |v_rel| d / nu (standard sports-ball aerodynamics, e.g. Nathan 2008).",
+    *(f"{MODELS[k].title}: {MODELS[k].source} {MODELS[k].note}" for k in MODEL_KEYS if k != "constant"),
+    "Spin decay d omega/dt = -c omega |v_rel| / r: form from Smits & Smith (1994) as discussed in "
+    "Nathan, A. M. (2008), 'The effect of spin-down on the flight of a baseball' (note); constants from "
+    "memory; for balls without their own data the golf-ball constant is borrowed (warned).",
+    *(f"{b.name}: {b.rule}." for b in BALLS.values()),
+    "Air: ISA (ISO 2533) or measured temperature, pressure and humidity (liftcore.air).",
+    "Wind over height: power law u(z) = u_ref (z / z_ref)^alpha, alpha about 1/7 over open ground "
+    "(common practice).",
+    "Integration: Dormand & Prince (1980), J. Comput. Appl. Math. 6, 19-26, with a step size per flight; "
+    "landing by cubic Hermite interpolation.",
+)
+CAUTIONS = (
+    "Results are for analysis, not for safety distances: real balls scatter more than any model. "
+    "Flying balls can injure; keep people clear of the landing area and follow the venue's safety rules.",
+)
+
+HEADLINE_HELP = {
+    "carry_m": "Distance along the target line (x) from launch to where the ball first meets the ground.",
+    "peak_height_m": "Highest point above the ground.",
+    "flight_time_s": "Time from launch to landing.",
+    "lateral_m": "Sideways distance from the target line at landing; right of the line is positive.",
+    "descent_angle_deg": "Angle of the path below the horizontal at landing.",
+    "landing_speed_m_s": "Ball speed over the ground at landing.",
+}
+
+
+@dataclass(frozen=True)
+class FlightDetail:
+    """What the page needs beyond the headlines."""
+
+    flights: tuple
+    setup: bf.FlightSetup
+    launch: bf.Launch
+    air: object
+    dispersion: object = None
+    compare_warnings: tuple = ()
+
+
+def setup_from_values(values: dict, ball_key: str | None = None, altitude_m: float | None = None,
+                      no_air: bool = False):
+    """(FlightSetup, AirState) from the study inputs (optionally another ball or altitude)."""
+    v = values
+    if altitude_m is not None:
+        air = air_state(altitude_m, relative_humidity=v.get("relative_humidity_pct", 0.0) / 100.0)
+    else:
+        air = air_state_from_inputs(v)
+    rho = air.density_kg_m3
+    if v.get("set_density") and altitude_m is None:
+        rho = v["density_kg_m3"]
+    if no_air:
+        rho = 0.0
+    bk = ball_key or v["ball"]
+    mk = v["coefficient_model"]
+    if ball_key is not None or mk == "ball_default":
+        mk = None if bk != "custom" else "achenbach1972"
+    cd_scale, cl_scale = v["cd_scale"], v["cl_scale"]
+    if (mk or (BALLS[bk].model if bk in BALLS else "")) == "constant":
+        cd_scale, cl_scale = v["constant_cd"] * cd_scale, v["constant_cl"] * cl_scale
+    wind = bf.Wind(v["wind_speed_m_s"], v["wind_from_deg"], v["wind_profile"], v["wind_ref_height_m"],
+                   v["wind_exponent"])
+    setup = bf.make_setup(bk, mk, density_kg_m3=rho,
+                          kinematic_viscosity_m2_s=air.dynamic_viscosity_pa_s / max(air.density_kg_m3, 1e-9),
+                          speed_of_sound_m_s=air.speed_of_sound_m_s, wind=wind, cd_scale=cd_scale,
+                          cl_scale=cl_scale, spin_decay=v["spin_decay"], diameter_m=v["custom_diameter_m"],
+                          mass_kg=v["custom_mass_kg"])
+    return setup, air
+
+
+def launch_from_values(values: dict, **changes) -> bf.Launch:
+    v = values
+    la = bf.Launch(v["speed_m_s"], v["elevation_deg"], v["azimuth_deg"], v["spin_rpm"], v["spin_axis_deg"],
+                   v["rifle_deg"], v["launch_height_m"])
+    return replace(la, **changes) if changes else la
+
+
+def spread_sd(values: dict) -> dict:
+    return {"speed_m_s": values["sd_speed_m_s"], "elevation_deg": values["sd_elevation_deg"],
+            "azimuth_deg": values["sd_azimuth_deg"], "spin_rpm": values["sd_spin_rpm"],
+            "spin_axis_deg": values["sd_spin_axis_deg"]}
+
+
+def _label(setup, values, air) -> str:
+    return f"{setup.ball.name}, {values['speed_m_s']:.3g} m/s at {values['elevation_deg']:.3g}°"
+
+
+def comparison_flight(values: dict):
+    """The second flight the inputs ask for, or None: (Flight, setup)."""
+    mode = values["compare_with"]
+    if mode == "none":
+        return None
+    if mode == "altitude":
+        setup, air = setup_from_values(values, altitude_m=values["compare_altitude_m"])
+        la = launch_from_values(values)
+        label = f"At {values['compare_altitude_m']:.0f} m altitude"
+    elif mode == "ball":
+        setup, air = setup_from_values(values, ball_key=values["compare_ball"])
+        la = launch_from_values(values)
+        label = BALLS[values["compare_ball"]].name
+    elif mode == "spin":
+        setup, air = setup_from_values(values)
+        la = launch_from_values(values, spin_rpm=values["compare_spin_rpm"])
+        label = f"Spin {values['compare_spin_rpm']:.0f} rpm"
+    elif mode == "speed":
+        setup, air = setup_from_values(values)
+        la = launch_from_values(values, speed_m_s=values["compare_speed_m_s"])
+        label = f"Speed {values['compare_speed_m_s']:.3g} m/s"
+    else:
+        setup, air = setup_from_values(values, no_air=True)
+        la = launch_from_values(values)
+        label = "Without air (vacuum)"
+    return bf.fly(setup, la, label=label), setup
+
+
+def run(values: dict, progress=None, extra=None) -> StudyResult:
+    setup, air = setup_from_values(values)
+    launch = launch_from_values(values).validate()
+    main = bf.fly(setup, launch, label="This flight")
+    flights = [main]
+    cmp_ws: tuple = ()
+    cmp = comparison_flight(values)
+    if cmp is not None:
+        flights.append(cmp[0])
+        cmp_ws = cmp[0].warnings
+    for label, vals in (extra or {}).get("overlay", ()) if isinstance(extra, dict) else ():
+        from liftcore.studies import study
+
+        clean = study(KIND).INPUTS.validate(vals)
+        su, _ = setup_from_values(clean)
+        flights.append(bf.fly(su, launch_from_values(clean), label=str(label)))
+    disp = None
+    if values["dispersion_n"] > 0:
+        disp = bf.dispersion(setup, launch, spread_sd(values), values["dispersion_n"],
+                             values["dispersion_seed"], progress=progress)
+    warnings = list(main.warnings)
+    for w in air.warnings:
+        warnings.append(ModelWarning(w.code, w.message, "", w.severity))
+    if setup.density_kg_m3 == 0.0:
+        warnings.append(ModelWarning("vacuum", "air density 0: the flight is in vacuum (no drag, lift or "
+                                     "spin decay)", ""))
+    heads = tuple(Headline(k, label, getattr(main, k), kind, 3 if k != "carry_m" else 4, HEADLINE_HELP[k])
+                  for k, (label, kind) in bf.OUTPUTS.items())
+    figs = (("Flight path in 3-D", fb.trajectory_3d(flights)),
+            ("Side view", fb.side_view(flights)),
+            ("Top view", fb.top_view(flights)),
+            ("Along the flight", fb.along_flight(flights)))
+    if disp is not None:
+        figs += (("Landing spread", fb.dispersion_figure(disp)),)
+    tables = {}
+    for f in flights:
+        df = pd.DataFrame(f.path)
+        tables[f"path: {f.label}"] = df
+    tables["flights"] = pd.DataFrame([{"flight": f.label, **f.headline_dict(),
+                                       "landing_spin_rpm": f.landing_spin_rpm} for f in flights])
+    js = {k: getattr(main, k) for k in bf.OUTPUTS}
+    js["warnings"] = [w.as_dict() for w in merge(warnings)]
+    js["ball"] = setup.ball.key
+    js["coefficient_model"] = setup.model_key
+    js["air_density_kg_m3"] = setup.density_kg_m3
+    js["landing_spin_rpm"] = main.landing_spin_rpm
+    if cmp is not None:
+        js["comparison"] = {"label": cmp[0].label, **cmp[0].headline_dict(),
+                            "warnings": [w.as_dict() for w in cmp_ws]}
+    if disp is not None:
+        js["dispersion"] = disp.summary()
+        tables["spread"] = pd.DataFrame({"carry_m": disp.carry_m, "lateral_m": disp.lateral_m,
+                                         "flight_time_s": disp.flight_time_s, **{f"launch_{k}": v for k, v in disp.draws.items()}})
+    return StudyResult(KIND, dict(values), heads, merge(warnings), figs, tables,
+                       FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws), js)

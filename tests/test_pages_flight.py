@@ -1,0 +1,82 @@
+"""The ball-flight page: renders, and what it shows equals a direct core call (AppTest)."""
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+from streamlit.testing.v1 import AppTest
+
+from liftcore import ballflight as bf
+from liftcore.studies import flight as study
+from liftcore.studies import run_study
+
+PAGE = str(Path(__file__).resolve().parents[1] / "views" / "flight.py")
+
+
+def metric(at, label):
+    for m in at.metric:
+        if m.label == label:
+            return m.value
+    raise AssertionError(f"no metric {label!r}; have {[m.label for m in at.metric]}")
+
+
+@pytest.fixture(scope="module")
+def page():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.run()
+    assert not at.exception, at.exception
+    return at
+
+
+def test_page_renders_with_title_headlines_and_cautions(page):
+    assert page.title[0].value == "Spinning ball flight"
+    r = run_study("flight", {"dispersion_n": 0})
+    assert metric(page, "Carry") == r.headline("carry_m").text("SI")
+    assert any("not for safety distances" in i.value for i in page.info)
+
+
+def test_changing_inputs_matches_the_core(page):
+    page.selectbox(key="w:flight:ball:SI").set_value("golf").run()
+    page.number_input(key="w:flight:speed_m_s:SI").set_value(65.0).run()
+    page.number_input(key="w:flight:elevation_deg:SI").set_value(12.0).run()
+    page.number_input(key="w:flight:spin_rpm:SI").set_value(2800.0).run()
+    page.number_input(key="w:flight:spin_axis_deg:SI").set_value(15.0).run()
+    assert not page.exception, page.exception
+    values = {"ball": "golf", "speed_m_s": 65.0, "elevation_deg": 12.0, "spin_rpm": 2800.0,
+              "spin_axis_deg": 15.0, "dispersion_n": 0}
+    r = run_study("flight", values)
+    for key, label in (("carry_m", "Carry"), ("lateral_m", "Drift to the side (right +)"),
+                       ("peak_height_m", "Peak height")):
+        assert metric(page, label) == r.headline(key).text("SI")
+    # the sweep tab's best grid point is the core sweep's best point
+    clean = study.INPUTS.validate(values)
+    setup, _ = study.setup_from_values(clean)
+    sw = bf.sweep(setup, study.launch_from_values(clean), "elevation_deg", np.linspace(10, 45, 21),
+                  "spin_rpm", np.linspace(0, 4000, 21), "carry_m", True)
+    assert metric(page, "Best carry on the grid").startswith(f"{sw.best_value:.3g}")
+    # the spread tab equals a direct dispersion with the page's defaults (2000 flights, seed 1)
+    d = bf.dispersion(setup, study.launch_from_values(clean), study.spread_sd(clean), 2000, 1)
+    assert metric(page, "Carry P50") == f"{d.carry_percentiles_m[50]:.3g} m"
+
+
+def test_imperial_units_and_second_flight():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.session_state["unit_system"] = "imperial"
+    at.run()
+    at.selectbox(key="w:flight:compare_with:imperial").set_value("altitude").run()
+    assert not at.exception, at.exception
+    r = run_study("flight", {"compare_with": "altitude", "dispersion_n": 0})
+    assert metric(at, "Carry") == r.headline("carry_m").text("imperial")
+    assert metric(at, "Carry").endswith("yd")
+    table = at.dataframe[0].value
+    assert list(table["Flight"]) == ["This flight", "At 1600 m altitude"]
+
+
+def test_fit_tab_recovers_the_demo_coefficients():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.run()
+    at.button(key="flight_fit_run").click().run()
+    assert not at.exception, at.exception
+    fit = bf.fit_tracks(bf.demo_tracks_setup(), bf.demo_tracks(), bf.DEMO_TRACKS["spin_rpm"], 0.0)
+    cd, scd = fit.parameter("CD")
+    assert metric(at, "CD") == f"{cd:.4f} ± {scd:.4f}"
