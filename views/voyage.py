@@ -1,6 +1,145 @@
-"""Voyage savings page (being built)."""
+"""Voyage savings page: is it worth fitting rotors to this ship on this trade, which size, how many?
+
+Widgets -> liftcore.studies.voyage (one cached run) -> figures. No physics here.
+"""
 
 import streamlit as st
 
+from liftcore import windstats
+from liftcore.errors import InputError
+from liftcore.studies import voyage as study
+from views.common import (general_warnings, render_inputs, run_cached, show_figure, show_headlines,
+                          show_sources_and_cautions, show_warnings, unit_system)
+
+KIND = study.KIND
+UPLOAD_KEY = "voyage:upload"
+
+FORMATS = {
+    "table": ("true_wind_angle_deg, true_wind_speed_m_s, probability",
+              "One row per wind condition met at sea. The angle is the bearing of the true wind "
+              "from the bow (0 = head wind, 90 = from starboard, 180 = from astern; -180 to 360 "
+              "accepted). Probabilities are shares of the time at sea and must sum to 1 within 1e-6."),
+    "weibull": ("sector_centre_deg, frequency, scale_m_s, shape",
+                "One row per direction sector, all sectors equally wide. sector_centre_deg is where "
+                "the wind comes from, clockwise from north; frequency is the share of time (sums to "
+                "1); scale_m_s and shape are the Weibull c and k of the wind speed. The course below "
+                "turns directions into angles off the bow."),
+    "series": ("time, ship_speed_kn, ship_heading_deg, true_wind_speed_m_s, true_wind_direction_deg "
+               "[, leg]",
+               "One row per hour, any length. time in ISO 8601 (2031-01-01T00:00); ship speed 0 = in "
+               "port (no saving); heading is where the ship goes and true_wind_direction_deg where the "
+               "wind comes from, both clockwise from north; leg (optional) names the leg for the bars."),
+}
+
 st.title("Voyage savings")
-st.info("This page is being built.")
+st.caption("Expected thrust, net power gain, energy, fuel, CO₂ and money saved per year by rotor "
+           "sails over the wind of a trade, with the best spin in every wind condition, and a "
+           "comparison of rotor sizes and counts. Opens on invented demo data.")
+
+only = {
+    "course_deg": lambda v: v["wind_kind"] == "weibull",
+    "round_trip": lambda v: v["wind_kind"] == "weibull",
+    "hours_from_series": lambda v: v["wind_kind"] == "series",
+    "ship_speed_m_s": lambda v: v["wind_kind"] != "series",
+    "speed_profile_kn": lambda v: v["wind_kind"] != "series",
+    "hours_at_sea_h": lambda v: v["wind_kind"] != "series" or not v["hours_from_series"],
+    "user_coefficients_csv": lambda v: v["coefficient_set"] == "user",
+    "user_aspect_ratio": lambda v: v["coefficient_set"] == "user",
+    "user_end_plate_ratio": lambda v: v["coefficient_set"] == "user",
+    "temperature_k": lambda v: v["air_mode"] == "measured",
+    "pressure_pa": lambda v: v["air_mode"] == "measured",
+    "power_law_exponent": lambda v: v["wind_profile"] == "power",
+    "charnock_constant": lambda v: v["wind_profile"] == "log",
+    "sweep_max_rotors": lambda v: v["sweep"],
+}
+values = render_inputs(study.INPUTS, show_if=only)
+kind = values["wind_kind"]
+system = unit_system()
+
+# ----------------------------------------------------------------------------- wind data
+cols, info = FORMATS[kind]
+up_col, fmt_col = st.columns([1, 1])
+with up_col:
+    uploaded = st.file_uploader(f"Your wind file: {study.WIND_KIND_LABELS[study.WIND_KINDS.index(kind)].lower()} (CSV)",
+                                type=["csv", "txt"], key=UPLOAD_KEY,
+                                help="Without a file the page uses the invented demo of this kind.")
+with fmt_col:
+    with st.expander("File format and directions", expanded=False):
+        st.markdown(f"Columns: `{cols}`\n\n{info}\n\nLines starting with `#` are comments. "
+                    "Wind speeds are at the height of the given true wind (Wind profile section).")
+        st.download_button("Download the invented demo file of this kind",
+                           study.DEMO_FILES[kind].read_bytes(), file_name=study.DEMO_FILES[kind].name,
+                           mime="text/csv", key=f"voyage:demo:{kind}")
+
+extra = None
+if uploaded is not None:
+    try:
+        extra = windstats.read_csv_frame(uploaded.getvalue(), uploaded.name)
+        extra.attrs["source_name"] = uploaded.name
+    except InputError as exc:
+        st.error(str(exc), icon=":material/error:")
+        st.stop()
+
+try:
+    result = run_cached(KIND, values, extra=extra, label="Computing the voyage")
+except InputError as exc:
+    st.error(str(exc), icon=":material/error:")
+    st.caption("Your inputs are kept; fix the file or the field named above.")
+    st.stop()
+
+d = result.detail
+s = d.summary
+hours_note = ("from the series" if d.hours_source == "from the series" else "as entered")
+st.caption(f"Wind: {d.wind_source}, {d.conditions:,} "
+           f"{'hourly rows' if kind == 'series' else 'wind conditions'}; "
+           f"{s.hours_at_sea_per_year:,.0f} h at sea per year ({hours_note}); computed {d.engine}. "
+           f"Coefficient set: {d.coefficient_set['label']}.")
+
+show_headlines(result, keys=("mean_net_power", "annual_fuel_saved", "annual_co2_avoided",
+                             "annual_cost_saved"))
+show_headlines(result, keys=("payback", "annual_energy_saved", "mean_thrust", "engine_power_share"))
+show_headlines(result, keys=("running_share", "limited_share", "stopped_share", "peak_heeling_moment"))
+
+figs = dict(study.figures(d, values, system))
+c1, c2 = st.columns(2)
+with c1:
+    show_figure(figs["Wind rose of the input"], key="voyage:rose")
+with c2:
+    show_figure(figs["Net gain over wind angle and speed"], key="voyage:heat")
+show_figure(figs["Operating time"], key="voyage:states")
+if "By month" in figs:
+    c1, c2 = st.columns(2)
+    with c1:
+        show_figure(figs["By month"], key="voyage:months")
+    if "By leg" in figs:
+        with c2:
+            show_figure(figs["By leg"], key="voyage:legs")
+
+if d.sweep is not None:
+    st.subheader("Design options: which size, how many?")
+    st.caption(d.sweep_note)
+    c1, c2 = st.columns(2)
+    with c1:
+        show_figure(figs["Design options: fuel"], key="voyage:sweep_fuel")
+    with c2:
+        if "Design options: payback" in figs:
+            show_figure(figs["Design options: payback"], key="voyage:sweep_payback")
+        elif "Design options: money" in figs:
+            show_figure(figs["Design options: money"], key="voyage:sweep_money")
+
+st.subheader("IMO wind-propulsion term")
+show_headlines(result, keys=("imo_effective_power",), columns=3)
+st.caption("(0.5144 V_ref / η_T) Σ F·W − Σ P·W from MEPC.1/Circ.896, with F the thrust and P the "
+           "electric power of the best spin at V_ref in each wind condition and W this trade's wind "
+           "probabilities (not the IMO global matrix unless you upload it as a joint table).")
+
+show_warnings(general_warnings(result), title="About the model and the data")
+
+with st.expander("Tables (core units) to download", expanded=False):
+    for name, table in result.tables.items():
+        st.markdown(f"**{name.replace('_', ' ')}**")
+        st.dataframe(table, hide_index=True, height=min(300, 40 + 35 * len(table)))
+        st.download_button(f"Download {name}.csv", table.to_csv(index=False).encode(),
+                           file_name=f"voyage_{name}.csv", mime="text/csv", key=f"voyage:csv:{name}")
+
+show_sources_and_cautions(study)

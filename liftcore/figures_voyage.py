@@ -1,0 +1,186 @@
+"""Charts of the voyage page: each answers one question, with units on every axis.
+
+Builders take core-unit results (a :class:`~liftcore.voyage.Tally`, tables from
+:mod:`liftcore.voyage`) and a unit system, and return Plotly figures in the house style.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import plotly.colors as pc
+import plotly.graph_objects as go
+
+from liftcore import units
+from liftcore.figures import DIVERGING, SEQUENTIAL, base_figure, colour
+from liftcore import voyage as vy
+
+MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+
+
+def _u(kind: str, system: str) -> str:
+    return units.unit_label(kind, system)
+
+
+def _show(values, kind: str, system: str):
+    return units.to_display(np.asarray(values, dtype=float), kind, system)
+
+
+def _speed_class_labels(system: str) -> list[str]:
+    edges = [float(units.to_display(e, "wind_speed", system)) for e in vy.ROSE_SPEED_EDGES_M_S]
+    u = _u("wind_speed", system)
+    out = [f"{a:.0f}–{b:.0f} {u}" for a, b in zip(edges[:-1], edges[1:])]
+    out.append(f"above {edges[-1]:.0f} {u}")
+    return out
+
+
+def wind_rose(t: vy.Tally, system: str = "SI") -> go.Figure:
+    """Share of time at sea by wind direction sector and speed class (stacked)."""
+    if t.rose_is_direction:
+        title = "Where the true wind comes from (share of time at sea)"
+        ticks = dict(tickmode="array", tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
+                     ticktext=["N", "NE", "E", "SE", "S", "SW", "W", "NW"])
+    else:
+        title = "True wind relative to the bow (share of time at sea)"
+        ticks = dict(tickmode="array", tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
+                     ticktext=["bow 0°", "45°", "starboard 90°", "135°", "stern 180°", "225°",
+                               "port 270°", "315°"])
+    fig = base_figure(title, height=520)
+    step = 360.0 / vy.ROSE_SECTORS
+    theta = np.arange(vy.ROSE_SECTORS) * step
+    share = 100.0 * t.rose / t.weight if t.weight > 0 else t.rose
+    labels = _speed_class_labels(system)
+    colours = pc.sample_colorscale(SEQUENTIAL, np.linspace(0.0, 0.9, len(labels)))
+    for j, lab in enumerate(labels):
+        fig.add_trace(go.Barpolar(r=share[:, j], theta=theta, width=[step * 0.95] * theta.size,
+                                  name=lab, marker_color=colours[j], marker_line_width=0.5,
+                                  marker_line_color="white",
+                                  hovertemplate="%{theta:.0f}°: %{r:.2f} % of time<extra>" + lab + "</extra>"))
+    fig.update_layout(polar=dict(angularaxis=dict(direction="clockwise", rotation=90, **ticks),
+                                 radialaxis=dict(ticksuffix=" %", angle=90, tickangle=90)),
+                      legend=dict(title="True wind speed"), margin=dict(l=40, r=40, t=80, b=40))
+    return fig
+
+
+def gain_heat_map(t: vy.Tally, system: str = "SI") -> go.Figure:
+    """Each cell: its contribution to the mean net power gain (gain x share of time)."""
+    pu = _u("power", system)
+    fig = base_figure(f"Where the gain comes from: net power gain × share of time [{pu}]",
+                      "True wind angle off the bow, either side [°]",
+                      f"True wind speed [{_u('wind_speed', system)}]", height=520)
+    used = np.nonzero(t.heat_weight.sum(axis=0))[0]
+    if used.size == 0 or t.weight <= 0:
+        return fig
+    top = int(used.max()) + 1
+    w = t.heat_weight[:, :top]
+    contribution = _show(t.heat_net[:, :top] / t.weight, "power", system)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        gain = _show(np.where(w > 0, t.heat_net[:, :top] / np.where(w > 0, w, 1.0), np.nan), "power", system)
+    z = np.where(w > 0, contribution, np.nan).T
+    share = (100.0 * w / t.weight).T
+    speeds = _show(vy.HEAT_SPEEDS_M_S[:top], "wind_speed", system)
+    negative = np.nanmin(z) < 0 if np.isfinite(z).any() else False
+    scale = dict(colorscale=DIVERGING, zmid=0.0) if negative else dict(colorscale=SEQUENTIAL)
+    fig.add_trace(go.Heatmap(
+        x=vy.HEAT_ANGLES_DEG, y=speeds, z=z, customdata=np.dstack([share, gain.T]),
+        colorbar=dict(title=pu), **scale,
+        hovertemplate=("angle %{x:.0f}°, wind %{y:.1f} " + _u("wind_speed", system)
+                       + "<br>share of time %{customdata[0]:.2f} %<br>net gain there %{customdata[1]:.0f} "
+                       + pu + "<br>contribution %{z:.2f} " + pu + "<extra></extra>")))
+    fig.update_xaxes(range=[-5, 185], tickvals=list(range(0, 181, 30)))
+    return fig
+
+
+def operating_time(summary: vy.VoyageSummary) -> go.Figure:
+    """Share of time at sea the rotors run freely, run at a limit, or stand still."""
+    fig = base_figure("How the rotors spend the time at sea", "Share of time at sea [%]", height=230)
+    parts = (("running freely", summary.free_share, colour(2)),
+             ("running at a limit", summary.limited_share, colour(4)),
+             ("stopped", summary.stopped_share, "#999999"))
+    for name, share, col in parts:
+        fig.add_trace(go.Bar(x=[100.0 * share], y=["rotors"], orientation="h", name=name,
+                             marker_color=col, text=[f"{100 * share:.0f} %"], textposition="inside",
+                             hovertemplate=name + ": %{x:.1f} %<extra></extra>"))
+    fig.update_layout(barmode="stack", legend=dict(orientation="h", y=-0.45), margin=dict(t=60, b=90))
+    fig.update_xaxes(range=[0, 100])
+    fig.update_yaxes(showticklabels=False)
+    return fig
+
+
+def period_bars(df, label_column: str, title: str, labels=None, system: str = "SI") -> go.Figure:
+    """Mean net power gain at sea per month or per leg, with the share of sea time on hover."""
+    pu = _u("power", system)
+    fig = base_figure(title, "", f"Mean net power gain at sea [{pu}]", height=420)
+    if df is None or len(df) == 0:
+        return fig
+    x = list(labels) if labels is not None else [str(v) for v in df[label_column]]
+    y = _show(df["mean_net_power_w"].to_numpy(), "power", system)
+    energy = _show(df["energy_saved_j"].to_numpy(), "energy", system)
+    share = 100.0 * df["share_of_sea_time"].to_numpy()
+    fig.add_trace(go.Bar(x=x, y=y, marker_color=colour(0), customdata=np.c_[share, energy],
+                         hovertemplate=("%{x}: %{y:.0f} " + pu + "<br>%{customdata[0]:.1f} % of sea time"
+                                        "<br>%{customdata[1]:.0f} " + _u("energy", system)
+                                        + " of the yearly saving<extra></extra>")))
+    return fig
+
+
+def month_bars(df, system: str = "SI") -> go.Figure:
+    return period_bars(df, "month", "Net power gain by calendar month", MONTHS, system)
+
+
+def leg_bars(df, system: str = "SI") -> go.Figure:
+    return period_bars(df, "leg", "Net power gain by leg of the route", None, system)
+
+
+def _option_name(d, h, system) -> str:
+    lu = _u("length", system)
+    return f"D {units.to_display(d, 'length', system):.3g} × H {units.to_display(h, 'length', system):.3g} {lu}"
+
+
+def sweep_savings(df, entered: dict, system: str = "SI", column: str = "annual_fuel_saved_kg",
+                  kind: str = "fuel_mass", title: str = "Fuel saved per year by rotor size and count") -> go.Figure:
+    """Yearly saving against the number of rotors, one line per size; the entered option starred."""
+    is_money = kind == "money"
+    unit = "" if is_money else _u(kind, system)
+    y_title = "Money saved per year" if is_money else f"{title.split(' by ')[0]} [{unit}]"
+    fig = base_figure(title, "Number of rotors", y_title, height=460)
+    if df is None or len(df) == 0:
+        return fig
+    for i, ((d, h), g) in enumerate(df.groupby(["diameter_m", "height_m"], sort=True)):
+        g = g.sort_values("rotors")
+        y = g[column].to_numpy() if is_money else _show(g[column].to_numpy(), kind, system)
+        fig.add_trace(go.Scatter(x=g["rotors"], y=y, mode="lines+markers", name=_option_name(d, h, system),
+                                 line=dict(color=colour(i), width=3.5), marker=dict(size=9),
+                                 hovertemplate="%{x} rotors: %{y:,.4g} " + unit + "<extra>%{fullData.name}</extra>"))
+    pick = df[(np.isclose(df["diameter_m"], entered["diameter_m"])) & (np.isclose(df["height_m"], entered["height_m"]))
+              & (df["rotors"] == entered["rotors"])]
+    if len(pick):
+        y = pick[column].to_numpy() if is_money else _show(pick[column].to_numpy(), kind, system)
+        fig.add_trace(go.Scatter(x=pick["rotors"], y=y, mode="markers", name="entered design",
+                                 marker=dict(symbol="star", size=20, color="#000000"),
+                                 hovertemplate="entered design: %{y:,.4g} " + unit + "<extra></extra>"))
+    fig.update_xaxes(dtick=1)
+    return fig
+
+
+def sweep_payback(df, entered: dict, system: str = "SI") -> go.Figure:
+    """Simple payback against the number of rotors, one line per size (never-paying options omitted)."""
+    fig = base_figure("Payback by rotor size and count", "Number of rotors", "Simple payback [years]",
+                      height=460)
+    if df is None or len(df) == 0:
+        return fig
+    finite = df[np.isfinite(df["payback_years"])]
+    for i, ((d, h), g) in enumerate(df.groupby(["diameter_m", "height_m"], sort=True)):
+        g = g[np.isfinite(g["payback_years"])].sort_values("rotors")
+        fig.add_trace(go.Scatter(x=g["rotors"], y=g["payback_years"], mode="lines+markers",
+                                 name=_option_name(d, h, system), line=dict(color=colour(i), width=3.5),
+                                 marker=dict(size=9),
+                                 hovertemplate="%{x} rotors: %{y:.1f} years<extra>%{fullData.name}</extra>"))
+    pick = finite[(np.isclose(finite["diameter_m"], entered["diameter_m"]))
+                  & (np.isclose(finite["height_m"], entered["height_m"])) & (finite["rotors"] == entered["rotors"])]
+    if len(pick):
+        fig.add_trace(go.Scatter(x=pick["rotors"], y=pick["payback_years"], mode="markers",
+                                 name="entered design", marker=dict(symbol="star", size=20, color="#000000"),
+                                 hovertemplate="entered design: %{y:.1f} years<extra></extra>"))
+    fig.update_xaxes(dtick=1)
+    fig.update_yaxes(rangemode="tozero")
+    return fig

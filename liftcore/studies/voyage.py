@@ -1,0 +1,400 @@
+"""Voyage savings study: is it worth fitting rotors to this ship on this trade, which size, how many?
+
+Inputs are the rotor inputs of the rotor study (:data:`liftcore.rotor.ROTOR_FIELDS`), the air
+state, and the ship, trade and money inputs below. The wind comes from an invented demo file of
+the chosen kind, or from ``extra``: a DataFrame (an uploaded CSV; ``df.attrs["source_name"]``
+names it in messages) or a path (the command line; series files are streamed, never loaded
+whole).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, replace
+from functools import partial
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from liftcore import figures_voyage as fv
+from liftcore import rotor, windstats
+from liftcore import voyage as vy
+from liftcore.air import air_inputs
+from liftcore.constants import CO2_FACTOR_T_PER_T, KNOT_M_S
+from liftcore.errors import InputError
+from liftcore.inputs import InputSpec, choice, flag, integer, number, text
+from liftcore.studies import Headline, StudyResult
+from liftcore.validity import ModelWarning
+
+KIND = "voyage"
+TITLE = "Voyage savings"
+
+DATA_DIR = Path(__file__).resolve().parents[1] / "data"
+#: The invented demo file of each wind-input kind.
+DEMO_FILES = {"table": DATA_DIR / "wind_table_invented.csv",
+              "weibull": DATA_DIR / "wind_weibull_invented.csv",
+              "series": DATA_DIR / "wind_series_invented.csv"}
+WIND_KINDS = tuple(DEMO_FILES)
+WIND_KIND_LABELS = ("Joint table: true wind angle × speed with probabilities",
+                    "Weibull wind speeds per direction sector",
+                    "Hourly series along a route")
+#: Design sweep: rotor sizes as factors of the entered diameter and height.
+SWEEP_SIZE_FACTORS = (0.6, 0.8, 1.0, 1.2)
+
+_W = "Wind on the trade"
+_S = "Ship and trade"
+_M = "Money"
+_I = "IMO wind-propulsion term"
+_D = "Design options"
+_C = "Computation"
+
+VOYAGE_FIELDS = (
+    choice("wind_kind", "Wind input", WIND_KINDS, default="table", labels=WIND_KIND_LABELS,
+           section=_W, help="What your wind file describes. Without an upload the page uses the "
+                            "invented demo file of this kind."),
+    number("course_deg", "Course on the trade (Weibull input)", "angle", 235.0, 0.0, 360.0,
+           section=_W, help="Where the ship heads, clockwise from north; with the wind directions "
+                            "of the sectors it gives the wind angle off the bow."),
+    flag("round_trip", "Half the time on the reciprocal course (Weibull input)", True, section=_W,
+         help="A shuttle trade: the ship sails the course and back, equal time each way."),
+    flag("hours_from_series", "Take hours at sea per year from the series", True, section=_W,
+         help="Hours under way in the series divided by the years it spans; off: use the "
+              "hours entered below."),
+    number("ship_speed_m_s", "Service speed", "ship_speed", 12.0 * KNOT_M_S, 0.5 * KNOT_M_S,
+           30.0 * KNOT_M_S, section=_S, help="Speed through the water when no speed profile is "
+                                             "given (tables and Weibull input)."),
+    text("speed_profile_kn", "Speed profile (knots:share, e.g. 12:0.6, 10:0.4)", "", section=_S,
+         help="Several speeds with their shares of sea time (summing to 1), in knots; empty = the "
+              "service speed all the time. Series carry their own speed."),
+    number("hours_at_sea_h", "Hours at sea per year", "duration", 6000.0, 1.0, 8760.0, section=_S,
+           step=100.0, help="Hours under way per year; the rotors save nothing in port."),
+    number("main_engine_power_w", "Mean main-engine power at sea (0 = not given)", "power",
+           6000e3, 0.0, 1.0e8, section=_S,
+           help="Without rotors; used only to express the saving as a share."),
+    number("sfoc_main_g_kwh", "Main-engine SFOC", "fuel_rate", 175.0, 100.0, 400.0, section=_S,
+           step=1.0, help="Specific fuel oil consumption of the main engine at its usual load; "
+                          "about 160 to 190 g/kWh for two-stroke diesels (common practice)."),
+    number("sfoc_generator_g_kwh", "Generator SFOC", "fuel_rate", 205.0, 100.0, 400.0, section=_S,
+           step=1.0, help="SFOC of the generators that supply the spin power; about 190 to 230 "
+                          "g/kWh (common practice)."),
+    choice("fuel", "Fuel", vy.FUELS, default="hfo", labels=tuple(vy.FUEL_LABELS[f] for f in vy.FUELS),
+           section=_S, help="Burnt by both main engine and generators; sets the CO₂ factor "
+                            "(IMO MEPC.364(79))."),
+    number("fuel_price_per_t", "Fuel price", "money_rate", 600.0, 0.0, 1.0e5, section=_M,
+           step=10.0, help="Money per tonne of fuel, in any currency; all money on the page is "
+                           "in that currency."),
+    number("carbon_price_per_t_co2", "Carbon price per t of CO₂", "money_rate", 0.0, 0.0, 1.0e5,
+           section=_M, step=5.0, help="Money per tonne of CO₂ emitted (an emissions scheme or "
+                                      "levy); 0 if none."),
+    number("installed_cost", "Installed cost of the rotors", "money", 2.5e6, 0.0, 1.0e10,
+           section=_M, step=50000.0, help="Buying and fitting all the rotors entered, in the "
+                                         "currency of the prices."),
+    number("upkeep_per_year", "Upkeep per year", "money", 20000.0, 0.0, 1.0e9, section=_M,
+           step=1000.0, help="Maintenance and running costs of the rotors each year."),
+    number("discount_rate_pct", "Discount rate", "percent", 8.0, 0.0, 50.0, section=_M, step=0.5,
+           help="For the discounted payback; 0 gives the simple payback."),
+    number("reference_speed_m_s", "Reference speed V_ref (0 = service speed)", "ship_speed", 0.0,
+           0.0, 30.0 * KNOT_M_S, section=_I, advanced=True,
+           help="Ship speed of the IMO term (MEPC.1/Circ.896); 0 takes the service speed."),
+    number("imo_total_efficiency", "Total efficiency of the main drive η_T", "ratio",
+           vy.IMO_DEFAULT_TOTAL_EFFICIENCY, 0.1, 1.0, section=_I, advanced=True, step=0.01,
+           help="0.7 unless another value is verified (MEPC.1/Circ.815, Annex 11, App. 2)."),
+    flag("sweep", "Compare rotor sizes and counts", True, section=_D,
+         help="Annual savings for 0.6, 0.8, 1.0 and 1.2 times the entered rotor, from 1 rotor up to "
+              "the number below."),
+    integer("sweep_max_rotors", "Most rotors to compare", 6, 1, 8, section=_D),
+    text("dask_scheduler", "Dask scheduler for long series", "", section=_C, advanced=True,
+         help="Empty: in this process, or a local cluster for series above "
+              f"{vy.DASK_AUTO_ROWS:,} rows; 'local': always a local cluster; 'off': never; or an "
+              "address such as tcp://10.0.0.5:8786 whose workers can read the file."),
+)
+
+INPUTS = InputSpec(KIND, tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs("Air")) + VOYAGE_FIELDS)
+
+SOURCES = (
+    "IMO MEPC.308(73) (2018) and MEPC.364(79) (2022), Guidelines on the method of calculation of "
+    "the attained EEDI for new ships: CO₂ conversion factors C_F (HFO 3.114, LFO 3.151, MDO/MGO "
+    "3.206, LNG 2.750, methanol 1.375 t CO₂ per t fuel).",
+    "IMO MEPC.1/Circ.815 (2013), Annex 11, Appendix 2, and MEPC.1/Circ.896 (2021): available "
+    "effective power of wind propulsion systems, (0.5144 V_ref / η_T) Σ F·W − Σ P·W, with the "
+    "wind angle as a relative bearing (0° on the bow) and η_T = 0.7 unless verified.",
+    "Justus, C. G., Hargraves, W. R., Mikhail, A. & Graber, D. (1978). Methods for estimating wind "
+    "speed frequency distributions. J. Appl. Meteor. 17, 350-353 (Weibull wind speeds).",
+    "Rotor forces, spin power and best spin: the rotor model of the 'Rotor sail on a ship' page "
+    "and the source of the coefficient set chosen (listed with the set).",
+    "Fuel = power × SFOC; spin power bought from the generators at their own SFOC (common practice).",
+)
+
+CAUTIONS = (
+    "Rotor sails change a ship's stability, structure and manoeuvring. These are estimates for "
+    "early design: they do not replace classification rules, flag-state requirements or a naval "
+    "architect's analysis. The heeling moments here come from table or hourly mean winds; gusts "
+    "are stronger, so check the limits with the ship's stability booklet.",
+    "Savings depend on routing, weather, loading, fouling and how the crew runs the rotors; the "
+    "wind statistics of a trade and the coefficient set dominate the uncertainty. Treat the "
+    "money figures as a comparison between options, not a quote.",
+)
+
+
+@dataclass(frozen=True)
+class VoyageDetail:
+    """What the page needs beyond the headlines."""
+
+    summary: vy.VoyageSummary
+    tally: vy.Tally
+    wind_kind: str
+    wind_source: str
+    conditions: int
+    engine: str
+    hours_source: str
+    imo_effective_power_w: float
+    imo_reference_speed_m_s: float
+    sweep: pd.DataFrame | None
+    sweep_note: str
+    coefficient_set: dict
+
+
+def economics_from_values(values: dict) -> vy.ShipEconomics:
+    me = values["main_engine_power_w"]
+    return vy.ShipEconomics(
+        sfoc_main_g_kwh=values["sfoc_main_g_kwh"], sfoc_generator_g_kwh=values["sfoc_generator_g_kwh"],
+        fuel=values["fuel"], hours_at_sea_per_year=values["hours_at_sea_h"],
+        fuel_price_per_t=values["fuel_price_per_t"],
+        carbon_price_per_t_co2=values["carbon_price_per_t_co2"],
+        installed_cost=values["installed_cost"], upkeep_per_year=values["upkeep_per_year"],
+        discount_rate=values["discount_rate_pct"] / 100.0, main_engine_power_w=me if me > 0 else None)
+
+
+def operate_for(setup: rotor.RotorSetup):
+    """The ``operate`` callable of a rotor setup: the best spin in each condition (picklable)."""
+    return partial(rotor.best_operation, setup)
+
+
+def sweep_setup(setup: rotor.RotorSetup, option: vy.DesignOption) -> rotor.RotorSetup:
+    """The rotor setup of one design option. The option keeps the entered rotor's proportions:
+    the motor-power limit scales with D x H, the rpm limit with 1/D (same spin ratios reachable),
+    spacing is at least one diameter; the ship's heeling-moment limit is kept."""
+    f = option.diameter_m / setup.diameter_m
+    return replace(setup, diameter_m=option.diameter_m, height_m=option.height_m,
+                   rotor_count=option.rotors, max_motor_power_w=setup.max_motor_power_w * f * f,
+                   max_rpm=setup.max_rpm / f,
+                   rotor_spacing_m=max(setup.rotor_spacing_m, option.diameter_m))
+
+
+def _wind_source(values: dict, extra):
+    """(source, label): a DataFrame or path of the chosen wind kind."""
+    kind = values["wind_kind"]
+    if extra is None:
+        path = DEMO_FILES[kind]
+        return path, f"invented demo ({path.name})"
+    if isinstance(extra, pd.DataFrame):
+        return extra, str(extra.attrs.get("source_name") or "uploaded file")
+    if isinstance(extra, (str, Path)):
+        return Path(extra), Path(extra).name
+    raise InputError("wind", f"wind data must be a table or a CSV file (got {type(extra).__name__})")
+
+
+def _use_dask(values: dict, source) -> str | None:
+    """None to stay in this process, else ``"local"`` or a scheduler address."""
+    addr = values["dask_scheduler"].strip()
+    if addr.lower() == "off":
+        return None
+    if addr:
+        return addr
+    return "local" if vy.estimate_rows(source) > vy.DASK_AUTO_ROWS else None
+
+
+def run(values: dict, progress=None, extra=None) -> StudyResult:
+    def step(lo, hi):
+        if progress is None:
+            return None
+        return lambda f, text="": progress(lo + (hi - lo) * max(0.0, min(1.0, f)), text)
+
+    kind = values["wind_kind"]
+    ship = economics_from_values(values)
+    setup = rotor.setup_from_inputs(values)
+    operate = operate_for(setup)
+    source, label = _wind_source(values, extra)
+    speeds, shares = vy.parse_speed_profile(values["speed_profile_kn"], values["ship_speed_m_s"])
+    sweep_on = values["sweep"]
+    main_end = 0.55 if sweep_on else 0.9
+    engine = "in memory"
+    hours = ship.hours_at_sea_per_year
+    hours_source = "entered"
+    if kind == "series":
+        scheduler = _use_dask(values, source)
+        if scheduler is None:
+            tally = vy.tally_series(operate, source, label, progress=step(0.0, main_end))
+        else:
+            engine = "Dask (local cluster)" if scheduler == "local" else f"Dask ({scheduler})"
+            tally = vy.tally_series_dask(operate, source, label, scheduler=scheduler,
+                                         progress=step(0.0, main_end))
+        if tally.weight <= 0:
+            raise InputError("wind", f"{label}: no hours at sea (ship_speed_kn is 0 in every row)")
+        if values["hours_from_series"]:
+            hours = vy.series_hours_at_sea_per_year(tally)
+            hours_source = "from the series"
+        imo_conditions = vy.grid_conditions(tally)
+        n_conditions = tally.rows
+    else:
+        if kind == "table":
+            joint = windstats.read_wind_table(source, label)
+        else:
+            sectors = windstats.read_weibull_sectors(source, label)
+            joint = windstats.apply_course(windstats.discretise_weibull(sectors), values["course_deg"],
+                                           values["round_trip"])
+        if step(0, main_end):
+            step(0, main_end)(0.1, "Best spin in every wind condition")
+        tally = vy.tally_joint(operate, joint, speeds, shares)
+        c = vy.conditions_from_joint(joint, speeds, shares)
+        imo_conditions = {k: c[k] for k in ("ship_speed_m_s", "true_wind_speed_m_s",
+                                            "true_wind_angle_deg", "weight")}
+        n_conditions = joint.size * speeds.size
+    summary = vy.summarise(tally, ship, hours)
+    if progress:
+        progress(main_end, "IMO wind-propulsion term")
+
+    # IMO term: force and power matrices at V_ref over the same wind probabilities
+    if values["reference_speed_m_s"] > 0:
+        v_ref = values["reference_speed_m_s"]
+    elif kind == "series":
+        v_ref = summary.mean_ship_speed_m_s
+    else:
+        v_ref = float(np.sum(speeds * shares))
+    w = imo_conditions["weight"] / np.sum(imo_conditions["weight"])
+    op_ref = rotor.best_operation(setup, np.full(w.size, v_ref), imo_conditions["true_wind_speed_m_s"],
+                                  np.radians(imo_conditions["true_wind_angle_deg"]))
+    elec = op_ref.electrical_power_w if op_ref.electrical_power_w is not None else op_ref.spin_power_w
+    imo_kw = vy.imo_wind_propulsion_power_kw(v_ref / KNOT_M_S, values["imo_total_efficiency"],
+                                             np.asarray(op_ref.thrust_n) / 1000.0,
+                                             np.asarray(elec) / 1000.0, w)
+
+    sweep_df, sweep_note = None, ""
+    if sweep_on:
+        counts = range(1, values["sweep_max_rotors"] + 1)
+        options = vy.option_costs(setup.diameter_m, setup.height_m, setup.rotor_count,
+                                  values["installed_cost"], SWEEP_SIZE_FACTORS, counts)
+        if kind == "series":
+            sweep_conditions = vy.grid_conditions(tally)
+            sweep_note = ("The series is binned for the comparison (ship speed 0.5 m/s × angle 10° "
+                          "× wind 1 m/s, each bin at its mean condition).")
+        else:
+            sweep_conditions = imo_conditions
+        sweep_df = vy.sweep_design_options(lambda o: operate_for(sweep_setup(setup, o)), options,
+                                           sweep_conditions, ship, hours, progress=step(main_end + 0.05, 1.0))
+        sweep_note += (" Sizes keep the entered proportions; motor power scales with D × H and the "
+                       "rpm limit with 1/D; cost per rotor scales with D × H from the entered "
+                       "installation (an assumption for comparing options, not a quote).")
+    if progress:
+        progress(1.0, "Done")
+
+    detail = VoyageDetail(summary=summary, tally=tally, wind_kind=kind, wind_source=label,
+                          conditions=int(n_conditions), engine=engine, hours_source=hours_source,
+                          imo_effective_power_w=imo_kw * 1000.0, imo_reference_speed_m_s=float(v_ref),
+                          sweep=sweep_df, sweep_note=sweep_note.strip(),
+                          coefficient_set=setup.coefficients.describe())
+    return _result(values, detail)
+
+
+def _result(values: dict, d: VoyageDetail) -> StudyResult:
+    s = d.summary
+    fuel = values["fuel"]
+    heads = [
+        Headline("mean_net_power", "Net power gain, mean at sea", s.mean_net_power_w, "power",
+                 help="Main-engine power saved (thrust × speed / propulsive efficiency) minus the "
+                      "electric power to spin the rotors, averaged over the time at sea."),
+        Headline("mean_thrust", "Thrust, mean at sea", s.mean_thrust_n, "large_force",
+                 help="Forward force of all rotors, averaged over the time at sea."),
+        Headline("annual_energy_saved", "Net energy saved per year", s.annual_energy_saved_j, "energy",
+                 help=f"Mean net power gain × {s.hours_at_sea_per_year:,.0f} h at sea per year "
+                      f"({d.hours_source})."),
+        Headline("annual_fuel_saved", "Fuel saved per year", s.annual_fuel_saved_kg, "fuel_mass",
+                 help="Main-engine energy saved × its SFOC minus spin energy × generator SFOC."),
+        Headline("annual_co2_avoided", "CO₂ avoided per year", s.annual_co2_avoided_kg, "fuel_mass",
+                 help=f"Fuel saved × {CO2_FACTOR_T_PER_T[fuel]} t CO₂ per t of "
+                      f"{vy.FUEL_LABELS[fuel]} (IMO MEPC.364(79))."),
+        Headline("annual_cost_saved", "Money saved per year", s.annual_cost_saved, "money",
+                 help="Fuel cost saved + carbon cost avoided − upkeep, in the currency of the prices."),
+        Headline("payback", "Simple payback, years",
+                 s.payback_years if math.isfinite(s.payback_years) else math.nan, "ratio", digits=3,
+                 help=f"Installed cost / money saved per year (– when it never pays back). Discounted at "
+                      f"{values['discount_rate_pct']:g} %: {_years(s.discounted_payback_years)}."),
+        Headline("running_share", "Rotors running", 100.0 * s.running_share, "percent", digits=3,
+                 help="Share of time at sea the rotors spin (freely or at a limit)."),
+        Headline("limited_share", "Running at a limit", 100.0 * s.limited_share, "percent", digits=3,
+                 help="Share of time at sea the spin is held back by the rpm, motor-power, "
+                      "heeling-moment or spin-ratio limit."),
+        Headline("stopped_share", "Rotors stopped", 100.0 * s.stopped_share, "percent", digits=3,
+                 help="Share of time at sea no spin pays for itself (head winds, calms)."),
+        Headline("engine_power_share", "Share of main-engine power saved",
+                 100.0 * s.engine_power_share if math.isfinite(s.engine_power_share) else math.nan,
+                 "percent", digits=3, help="Mean engine power saved / the mean main-engine power entered."),
+        Headline("imo_effective_power", "IMO available effective power f_eff·P_eff",
+                 d.imo_effective_power_w, "power",
+                 help=f"(0.5144 V_ref / η_T) Σ F·W − Σ P·W at V_ref = "
+                      f"{d.imo_reference_speed_m_s / KNOT_M_S:.3g} kn over this trade's wind "
+                      "probabilities W (MEPC.1/Circ.896)."),
+        Headline("peak_heeling_moment", "Highest heeling moment met", s.peak_heeling_moment_nm,
+                 "moment", help="Largest heeling moment of all rotors in any condition of the input "
+                                "(mean winds; gusts are higher)."),
+    ]
+    warnings = list(s.warnings)
+    if d.wind_source.startswith("invented"):
+        warnings.append(ModelWarning("invented_wind", f"The wind is the {d.wind_source}: upload "
+                                     "your trade's wind for real numbers.", ""))
+    j = s.as_json()
+    j.update({
+        "imo_effective_power_kw": d.imo_effective_power_w / 1000.0,
+        "imo_reference_speed_kn": d.imo_reference_speed_m_s / KNOT_M_S,
+        "engine_power_share": s.engine_power_share,
+        "mean_true_wind_speed_m_s": s.mean_true_wind_speed_m_s,
+        "mean_ship_speed_kn": s.mean_ship_speed_m_s / KNOT_M_S,
+        "wind_kind": d.wind_kind, "wind_source": d.wind_source, "conditions": d.conditions,
+        "computed": d.engine, "hours_at_sea_source": d.hours_source,
+        "coefficient_set": d.coefficient_set["name"],
+        "warnings": [w.as_dict() for w in warnings],
+    })
+    return StudyResult(kind=KIND, inputs=dict(values), headlines=tuple(heads), warnings=tuple(warnings),
+                       figures=tuple(figures(d, values)), tables=tables(d), detail=d, json=j)
+
+
+def _years(y: float) -> str:
+    return "never" if not math.isfinite(y) else f"{y:.1f} years"
+
+
+def figures(d: VoyageDetail, values: dict, system: str = "SI") -> list:
+    """(title, figure) pairs in page order."""
+    t = d.tally
+    out = [("Wind rose of the input", fv.wind_rose(t, system)),
+           ("Net gain over wind angle and speed", fv.gain_heat_map(t, system)),
+           ("Operating time", fv.operating_time(d.summary))]
+    if d.wind_kind == "series":
+        out.append(("By month", fv.month_bars(vy.month_table(t, d.summary.hours_at_sea_per_year), system)))
+        legs = vy.leg_table(t, d.summary.hours_at_sea_per_year)
+        if len(legs):
+            out.append(("By leg", fv.leg_bars(legs, system)))
+    if d.sweep is not None:
+        entered = {"diameter_m": values["diameter_m"], "height_m": values["height_m"],
+                   "rotors": values["rotor_count"]}
+        out.append(("Design options: fuel", fv.sweep_savings(d.sweep, entered, system)))
+        if values["fuel_price_per_t"] > 0 or values["carbon_price_per_t_co2"] > 0:
+            out.append(("Design options: money", fv.sweep_savings(
+                d.sweep, entered, system, "annual_cost_saved", "money",
+                "Money saved per year by rotor size and count")))
+        if values["installed_cost"] > 0:
+            out.append(("Design options: payback", fv.sweep_payback(d.sweep, entered, system)))
+    return out
+
+
+def tables(d: VoyageDetail) -> dict:
+    out = {"summary": pd.DataFrame([{k: v for k, v in d.summary.as_json().items() if k != "warnings"}]),
+           "gain_by_condition": vy.heat_table(d.tally)}
+    if d.wind_kind == "series":
+        out["by_month"] = vy.month_table(d.tally, d.summary.hours_at_sea_per_year)
+        legs = vy.leg_table(d.tally, d.summary.hours_at_sea_per_year)
+        if len(legs):
+            out["by_leg"] = legs
+    if d.sweep is not None:
+        out["design_options"] = d.sweep
+    return out
