@@ -106,7 +106,7 @@ def headline_rows(result: StudyResult, system: str = "SI") -> list[dict]:
 
 
 def _signed(d: float, digits: int) -> str:
-    return ("+" if d > 0 else "−" if d < 0 else "±") + format_number(abs(d), digits)
+    return ("+" if d > 0 else "-" if d < 0 else "±") + format_number(abs(d), digits)
 
 
 def difference_text(h0: Headline, h: Headline, system: str = "SI") -> str:
@@ -166,10 +166,17 @@ def headline_diff_rows(runs: list[Run], system: str = "SI") -> list[dict]:
 
 # ----------------------------------------------------------------------------- overlaid chart
 def _key_figure(kind: str, result: StudyResult):
-    """The study's key chart for comparisons: ``COMPARE_FIGURE`` (index or title), default the first."""
+    """The study's key chart for comparisons: ``COMPARE_FIGURE`` (index or title; ``None`` for
+    none) when the study sets it, else its first flat chart that can be overlaid, else its first."""
     if not result.figures:
         return None
-    which = getattr(study(kind), "COMPARE_FIGURE", 0)
+    mod = study(kind)
+    if not hasattr(mod, "COMPARE_FIGURE"):
+        for title, fig in result.figures:
+            if fig.data and all(t.type in OVERLAY_TYPES and t.type != "scatter3d" for t in fig.data):
+                return title, fig
+        return result.figures[0]
+    which = mod.COMPARE_FIGURE
     if which is None:
         return None
     if isinstance(which, str):
@@ -217,15 +224,13 @@ def overlay_figure(runs: list[Run]):
             t = go.Figure(data=[t]).data[0]  # a detached copy
             name = f"{r.name} · {t.name}" if t.name else r.name
             t.update(name=name, legendgroup=r.name, showlegend=True)
-            if t.type in ("scatter", "scattergl", "scatter3d", "scatterpolar"):
-                if t.fill and t.fill != "none":
-                    t.update(fillcolor=_rgba(colour, 0.15), line=dict(color=_rgba(colour, 0.0)))
-                else:
-                    t.update(line=dict(color=colour, dash=DASHES[j % len(DASHES)]))
-                    if t.marker is not None:
-                        t.update(marker=dict(color=colour))
-            elif t.type == "bar":
+            fill = getattr(t, "fill", None)
+            if t.type == "bar":
                 t.update(marker=dict(color=colour))
+            elif fill and fill != "none":  # a band: shade it in the option's colour
+                t.update(fillcolor=_rgba(colour, 0.15), line=dict(color=_rgba(colour, 0.0)))
+            else:
+                t.update(line=dict(color=colour, dash=DASHES[j % len(DASHES)]), marker=dict(color=colour))
             out.add_trace(t)
     if any(t.type == "bar" for t in out.data):
         out.update_layout(barmode="group")

@@ -219,3 +219,16 @@ def test_run_comparison_reports_one_overall_progress():
     runs = rp.run_comparison(c, progress=lambda f, t="": seen.append(f))
     assert [r.name for r in runs] == ["a", "b"]
     assert seen == sorted(seen) and seen[0] == 0.0 and seen[-1] == 1.0
+
+
+def test_default_key_chart_is_the_first_flat_chart_that_overlays(monkeypatch):
+    import plotly.graph_objects as go
+
+    from liftcore.studies import StudyResult
+
+    monkeypatch.delattr(demo_study, "COMPARE_FIGURE")
+    figs = (("map", go.Figure(go.Heatmap(z=[[1]]))), ("3-D", go.Figure(go.Scatter3d(x=[1], y=[1], z=[1]))),
+            ("side", go.Figure(go.Scatter(x=[1], y=[1]))))
+    res = StudyResult("demo", {}, (), figures=figs)
+    assert rp._key_figure("demo", res)[0] == "side"
+    assert rp._key_figure("demo", StudyResult("demo", {}, (), figures=figs[:2]))[0] == "map"

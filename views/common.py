@@ -378,8 +378,11 @@ def _query_params() -> dict:
 
 def _intake_link(spec: InputSpec) -> None:
     from liftcore.scenario import is_link, values_from_link
+    from liftcore.studies import STUDY_MODULES
 
     kind = spec.kind
+    if kind not in STUDY_MODULES:  # a page's helper inputs (not a study): not in links or files
+        return
     params = _query_params()
     if not is_link(params) or st.session_state.get(_k("link_seen", kind)) == params:
         return

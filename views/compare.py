@@ -86,7 +86,7 @@ with st.sidebar:
         common._reset_upload("compare")
         st.rerun()
     st.button("Load the invented demo comparison", on_click=_load_demo, icon=":material/science:",
-              width="stretch", disabled=not DEMO.exists())
+              width="stretch", disabled=not DEMO.exists(), key="_lc:cmp_demo")
     st.button("Remove all options", on_click=_clear, icon=":material/delete_sweep:", width="stretch",
               disabled=not common.kept_options())
 
