@@ -466,5 +466,13 @@ def test_compare_page_loads_the_demo_comparison_and_draws_the_key_chart():
     assert not at.exception, at.exception
     assert [o["name"] for o in at.session_state["_lc:options"]] == [o.name for o in doc.options]
     assert at.session_state["unit_system"] == doc.unit_system
-    assert [m.label for m in at.metric][:1] == [run_study(doc.kind, doc.options[0].inputs).headlines[0].label]
+    first = run_study(doc.kind, doc.options[0].inputs)
+    n = len(doc.options)
+    # the first row holds the first headline of every option, side by side
+    assert [m.label.replace("⚠", "").strip() for m in at.metric][:n] == [first.headlines[0].label] * n
+    assert at.metric[0].value == first.headlines[0].text(doc.unit_system)
+    # each warning is listed once, naming the options it applies to
+    listed = [w.value for w in at.warning]
+    for w in first.warnings:
+        assert sum(w.message in x for x in listed) == 1
     assert len(at.get("plotly_chart")) >= 1

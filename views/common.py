@@ -629,8 +629,7 @@ def page_tools(kind_or_spec, extra=None, data_note: str = "", container=None) ->
         for level, msg in st.session_state.pop(_k("flash", kind), []):
             (st.error if level == "error" else st.warning if level == "warning" else st.success)(msg)
         name_key = _k("option_name", kind)
-        c1, c2 = st.columns(2)
-        with c1.popover("Keep as option", icon=":material/bookmark_add:", width="stretch",
+        with st.popover("Keep as option", icon=":material/bookmark_add:", width="stretch",
                         help="Store these inputs under a name and compare up to four options "
                              "on the Compare options page"):
             if name_key not in st.session_state:
@@ -644,12 +643,12 @@ def page_tools(kind_or_spec, extra=None, data_note: str = "", container=None) ->
         title = _text_state(kind, "title", mod.TITLE)
         note = _text_state(kind, "note", "")
         stem = file_stem(title, kind)
-        c2.download_button("Report", data=_report_maker(kind, values, extra, system, title, note, data_note),
+        st.download_button("Handout report", data=_report_maker(kind, values, extra, system, title, note, data_note),
                            file_name=f"{stem}.html", mime="text/html", icon=":material/description:",
                            key=_k("report", kind), width="stretch", on_click="ignore",
                            help="A handout (HTML, opens offline, prints to PDF) with inputs, results, "
                                 "charts, warnings, sources and cautions")
-        with st.expander("Scenario file, numbers, share link", icon=":material/folder_open:"):
+        with st.expander("Save, load, share", icon=":material/folder_open:"):
             title = _text_widget(st, kind, "title", "Title", mod.TITLE, max_chars=200,
                                  help="Used for the scenario file, the report and its file names")
             note = _text_widget(st, kind, "note", "Note", "", area=True, max_chars=5000, height=80)

@@ -163,21 +163,33 @@ for gi, (kind, group) in enumerate(group_by_kind(runs)):
                       help="Open these inputs on the study's page")
             b2.button("Remove", key=f"_lc:remove:{index_of[id(o)]}", on_click=common.remove_option,
                       args=(index_of[id(o)],), icon=":material/close:")
-            first = group[0].result
-            for h in r.result.headlines:
-                delta = None
-                if r is not group[0]:
-                    try:
-                        delta = difference_text(first.headline(h.key), h, system)
-                    except KeyError:
-                        delta = None
-                st.metric(h.label, h.text(system), delta=None if delta in (None, "same", "–") else delta,
-                          delta_color="off", help=h.help or None, border=True)
-                for w in r.result.warnings:
-                    if w.subject == h.key:
-                        st.caption(f"⚠ {w.message}")
-            for w in common.general_warnings(r.result):
-                (st.error if w.severity == "invalid" else st.warning)(w.message, icon=":material/warning:")
+    # one row per result, options side by side, so the same number lines up across the room
+    first = group[0].result
+    for h0 in first.headlines:
+        row = st.columns(len(group))
+        for col, r in zip(row, group):
+            try:
+                h = r.result.headline(h0.key)
+            except KeyError:
+                col.metric(h0.label, "–", border=True)
+                continue
+            delta = None if r is group[0] else difference_text(h0, h, system)
+            warned = [w.message for w in r.result.warnings if w.subject == h.key]
+            tip = "\n\n".join(([h.help] if h.help else []) + [f"⚠ {m}" for m in warned]) or None
+            col.metric(f"{h.label}{'  ⚠' if warned else ''}", h.text(system),
+                       delta=None if delta in (None, "same", "–") else delta, delta_color="off",
+                       help=tip, border=True)
+    # warnings once each, naming the options they apply to
+    seen: dict[tuple, list[str]] = {}
+    for r in group:
+        for w in r.result.warnings:
+            seen.setdefault((w.severity, w.message), []).append(r.name)
+    if seen:
+        with st.expander(f"Model warnings ({len(seen)}); ⚠ marks the results they qualify",
+                         expanded=any(sev == "invalid" for sev, _ in seen)):
+            for (sev, msg), who in seen.items():
+                where = "all options" if len(who) == len(group) else ", ".join(who)
+                (st.error if sev == "invalid" else st.warning)(f"**{where}**: {msg}", icon=":material/warning:")
 
     irows = input_diff_rows(kind, group, system)
     differ = [r for r in irows if r["differs"]]
