@@ -39,7 +39,7 @@ from liftcore.errors import InputError, check_choice, check_number, check_positi
 from liftcore.validity import ModelWarning, merge
 
 #: Largest field file read, and the largest number of grid points accepted.
-MAX_FIELD_BYTES = 80_000_000
+MAX_FIELD_BYTES = 50_000_000
 MAX_FIELD_POINTS = 2_000_000
 MIN_POINTS_PER_AXIS = 4
 #: A coordinate may sit this fraction of a grid step off the regular grid (printed rounding).
@@ -523,8 +523,11 @@ def circulation_from_field(field: VelocityField, body_centre_m, body_radius_m: f
         raise InputError("number of loops", "number of loops must be at least 1 (got 0)")
     step = min(field.spacing_m)
     loops = loop_family(shape, (bx, by), sizes, step, asp)
-    for i, lp in enumerate(loops, start=1):
-        check_loop(field, lp, (bx, by), rb, number=i)
+    # the largest and the smallest loop first, so a message names the size the user set
+    order = sorted(range(len(loops)), key=lambda k: -sizes[k])
+    order = [order[0], order[-1]] + order[1:-1] if len(order) > 1 else order
+    for k in order:
+        check_loop(field, loops[k], (bx, by), rb, number=k + 1)
     interp = _interpolator(field)
     gammas = []
     for i, lp in enumerate(loops, start=1):

@@ -47,5 +47,5 @@ def band(fig: go.Figure, x, low, high, name: str, colour_hex: str, opacity: floa
     """Shade the region between ``low`` and ``high`` (e.g. the spread between data sets)."""
     r, g, b = (int(colour_hex[i:i + 2], 16) for i in (1, 3, 5))
     fig.add_trace(go.Scatter(x=list(x) + list(x)[::-1], y=list(high) + list(low)[::-1],
-                             fill="toself", fillcolor=f"rgba({r},{g},{b},{opacity})",
+                             fill="toself", fillcolor=f"rgba({r},{g},{b},{opacity})", mode="lines",
                              line=dict(width=0), name=name, hoverinfo="skip"))

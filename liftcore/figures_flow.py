@@ -102,7 +102,7 @@ def surface_pressure_figure(res: pot.IdealCylinderResult, n: int = 361) -> go.Fi
     cp = pot.surface_pressure_coefficient(th, res.speed_m_s, res.radius_m, res.circulation_m2_s)
     cp0 = pot.surface_pressure_coefficient(th, res.speed_m_s, res.radius_m, 0.0)
     fig = base_figure("Pressure round the surface: where the suction is",
-                      "angle from the rear point, counter-clockwise [°] (90 top, 180 front, 270 bottom)",
+                      "angle from the rear point [°]  (90 top, 180 front, 270 bottom)",
                       "pressure coefficient Cp [-]")
     fig.add_trace(go.Scatter(x=theta_deg, y=cp0, name="no spin", mode="lines",
                              line=dict(color="#888888", width=2.5, dash="dash")))
@@ -120,7 +120,7 @@ def surface_pressure_figure(res: pot.IdealCylinderResult, n: int = 361) -> go.Fi
 
 def pressure_check_figure(res: pot.IdealCylinderResult) -> go.Figure:
     """Lift and drag coefficients from the pressure integral beside Kutta-Joukowski."""
-    fig = base_figure("Check: the surface-pressure integral gives the Kutta-Joukowski lift and no drag",
+    fig = base_figure("Check: surface-pressure integral against Kutta-Joukowski",
                       "", "coefficient on the diameter [-]")
     labels = ["lift: Kutta-Joukowski<br>Γ / (R V)", "lift: surface-pressure<br>integral",
               "drag: surface-pressure<br>integral"]
@@ -130,15 +130,15 @@ def pressure_check_figure(res: pot.IdealCylinderResult) -> go.Figure:
                          textfont=dict(size=18), cliponaxis=False, showlegend=False,
                          hovertemplate="%{x}: %{y:.10g}<extra></extra>"))
     diff = res.pressure_lift_relative_difference
-    fig.add_annotation(xref="paper", yref="paper", x=0.99, y=0.98, xanchor="right", yanchor="top",
-                       showarrow=False, align="right", font=dict(size=16),
-                       bgcolor="rgba(255,255,255,0.9)",
-                       text=(f"lift difference: {diff:.1e} (relative)<br>"
+    up = res.lift_coefficient >= 0
+    fig.add_annotation(xref="paper", yref="paper", x=0.99, y=0.99 if up else 0.01, xanchor="right",
+                       yanchor="top" if up else "bottom", showarrow=False, align="right",
+                       font=dict(size=16), bgcolor="rgba(255,255,255,0.9)",
+                       text=(f"lift: relative difference {diff:.1e}<br>"
                              f"drag: {res.drag_coefficient_from_pressure:.1e}<br>"
-                             "both are round-off"))
+                             "both are round-off: they agree"))
     top = max(abs(res.lift_coefficient), 1.0)
-    fig.update_yaxes(range=[-0.15 * top if res.lift_coefficient >= 0 else -1.25 * top,
-                            1.25 * top if res.lift_coefficient >= 0 else 0.15 * top],
+    fig.update_yaxes(range=[-0.12 * top, 1.6 * top] if up else [-1.6 * top, 0.12 * top],
                      zeroline=True, zerolinecolor="#444")
     return fig
 
@@ -156,15 +156,15 @@ def ideal_lift_figure(res: pot.IdealCylinderResult) -> go.Figure:
                                                            line=dict(width=2, color="#000"))))
     for s2 in ([2.0, -2.0] if res.spin_ratio < 0 else [2.0]):
         fig.add_vline(x=s2, line=dict(color="#777", dash="dot", width=2))
-    fig.add_annotation(x=2.0, yref="paper", y=0.02, xanchor="left", yanchor="bottom", showarrow=False,
-                       text=" SR = 2: stagnation points<br> meet and leave the surface",
+    fig.add_annotation(x=2.0, yref="paper", y=0.98, xanchor="right", yanchor="top", showarrow=False,
+                       align="right", text="SR = 2: stagnation points <br>meet and leave the surface ",
                        font=dict(size=14, color="#444"))
-    fig.add_annotation(xref="paper", yref="paper", x=0.02, y=0.98, xanchor="left", yanchor="top",
+    fig.add_annotation(xref="paper", yref="paper", x=0.98, y=0.03, xanchor="right", yanchor="bottom",
                        showarrow=False, align="left", bgcolor="rgba(255,255,255,0.9)",
                        bordercolor=PALETTE[1], borderwidth=2, font=dict(size=15),
-                       text=("Real cylinders separate: the boundary layer leaves the surface,<br>"
-                             "so measured lift coefficients fall far below this line and<br>"
-                             "level off. Use measured coefficients for real forces."))
+                       text=("Real cylinders separate: the boundary<br>layer leaves the surface, "
+                             "so measured<br>lift coefficients fall far below this<br>line and level "
+                             "off. Use measured<br>coefficients for real forces."))
     fig.update_layout(legend=dict(orientation="h", y=-0.18, x=0.0), margin=dict(b=100))
     return fig
 
@@ -181,43 +181,52 @@ def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19) -> go.F
     sx, sy = _stride(field.x_m.size, max_cells), _stride(field.y_m.size, max_cells)
     xs, ys = field.x_m[::sx], field.y_m[::sy]
     speed = np.hypot(field.u_m_s, field.v_m_s)[::sx, ::sy].T
-    fig = base_figure("The velocity field and the loops round the body", "x [m]", "y [m]", height=620)
+    fig = base_figure(f"The velocity field and the loops ({len(res.loop_sizes_m)} integrated, 3 drawn)",
+                      "x [m]", "y [m]", height=640)
     fig.add_trace(go.Heatmap(x=xs, y=ys, z=speed.astype(np.float32), colorscale=SEQUENTIAL, name="speed",
                              colorbar=dict(title=dict(text="speed<br>[m/s]"), thickness=18),
                              hovertemplate="x %{x:.4g} m, y %{y:.4g} m<br>speed %{z:.3g} m/s<extra></extra>"))
     ax, ay = _stride(field.x_m.size, arrows), _stride(field.y_m.size, arrows)
     gx, gy = np.meshgrid(field.x_m[::ax], field.y_m[::ay], indexing="ij")
-    gu, gv = field.u_m_s[::ax, ::ay], field.v_m_s[::ax, ::ay]
+    gu, gv = field.u_m_s[::ax, ::ay].ravel(), field.v_m_s[::ax, ::ay].ravel()
+    gx, gy = gx.ravel(), gy.ravel()
+    moving = np.hypot(gu, gv) > 0.0  # points inside the body hold 0 in most files: no arrow
+    gx, gy, gu, gv = gx[moving], gy[moving], gu[moving], gv[moving]
     x0, x1, y0, y1 = field.extent_m
-    cell = min((x1 - x0) / max(gx.shape[0], 1), (y1 - y0) / max(gx.shape[1], 1))
-    vmax = float(np.max(np.hypot(gu, gv))) or 1.0
-    scale = 0.9 * cell / vmax
-    tipx, tipy = gx + scale * gu, gy + scale * gv
+    cell = min((x1 - x0) * ax / max(field.x_m.size - 1, 1), (y1 - y0) * ay / max(field.y_m.size - 1, 1))
+    vmax = float(np.max(np.hypot(gu, gv))) if gu.size else 1.0
+    scale = 0.85 * cell / (vmax or 1.0)
+    tailx, taily = gx - 0.5 * scale * gu, gy - 0.5 * scale * gv  # arrows centred on their point
+    tipx, tipy = gx + 0.5 * scale * gu, gy + 0.5 * scale * gv
     nan = np.full(gx.size, np.nan)
-    lx = np.column_stack([gx.ravel(), tipx.ravel(), nan]).ravel()
-    ly = np.column_stack([gy.ravel(), tipy.ravel(), nan]).ravel()
-    fig.add_trace(go.Scatter(x=lx, y=ly, mode="lines", line=dict(color="#ffffff", width=1.5),
-                             name="velocity (arrows)", hoverinfo="skip"))
-    ang = 90.0 - np.degrees(np.arctan2(gv.ravel(), gu.ravel()))
-    fig.add_trace(go.Scatter(x=tipx.ravel(), y=tipy.ravel(), mode="markers", showlegend=False,
-                             hoverinfo="skip", marker=dict(symbol="triangle-up", size=7, angle=ang,
-                                                           color="#ffffff")))
+    lx = np.column_stack([tailx, tipx, nan]).ravel()
+    ly = np.column_stack([taily, tipy, nan]).ravel()
+    fig.add_trace(go.Scatter(x=lx, y=ly, mode="lines", line=dict(color="#ffffff", width=2),
+                             name="velocity", showlegend=False, hoverinfo="skip"))
+    ang = 90.0 - np.degrees(np.arctan2(gv, gu))
+    fig.add_trace(go.Scatter(x=tipx, y=tipy, mode="markers", showlegend=False, hoverinfo="skip",
+                             marker=dict(symbol="triangle-up", size=10, angle=ang, color="#ffffff")))
+    # three loops drawn (all are integrated): the smallest, the smallest counted, the largest
     loops = loop_family(res.loop_shape, res.body_centre_m, res.loop_sizes_m,
                         min(field.spacing_m), res.rectangle_aspect)
-    shown = {True: False, False: False}
-    for lp, settled in zip(loops, res.settled):
-        ox, oy = lp.outline()
-        fig.add_trace(go.Scatter(
-            x=ox, y=oy, mode="lines", hoverinfo="skip",
-            name="loop counted in the estimate" if settled else "loop not counted (too close)",
-            legendgroup=str(settled), showlegend=not shown[settled],
-            line=dict(color=PALETTE[4] if settled else "#dddddd", width=3 if settled else 2,
-                      dash="solid" if settled else "dot")))
-        shown[settled] = True
+    sizes = np.asarray(res.loop_sizes_m)
+    settled = np.asarray(res.settled)
+    first_counted = int(np.flatnonzero(settled)[np.argmin(sizes[settled])])
+    picks = {}
+    smallest = int(np.argmin(sizes))
+    if not settled[smallest]:
+        picks[smallest] = (f"smallest loop {sizes[smallest]:.3g} m (not counted)", "#d0d0d0", "dot")
+    picks.setdefault(first_counted, (f"smallest counted loop {sizes[first_counted]:.3g} m", PALETTE[4], "dash"))
+    largest = int(np.argmax(sizes))
+    picks.setdefault(largest, (f"largest loop {sizes[largest]:.3g} m", PALETTE[4], "solid"))
+    for k, (name, col, dash) in picks.items():
+        ox, oy = loops[k].outline()
+        fig.add_trace(go.Scatter(x=ox, y=oy, mode="lines", hoverinfo="skip", name=name,
+                                 line=dict(color=col, width=3.5, dash=dash)))
     bx, by = res.body_centre_m
     _body(fig, bx, by, res.body_radius_m)
     _equal_axes(fig, (x0, x1), (y0, y1))
-    fig.update_layout(legend=dict(orientation="h", y=-0.14, x=0.0), margin=dict(b=110))
+    fig.update_layout(legend=dict(orientation="h", y=-0.12, x=0.0), margin=dict(b=120))
     return fig
 
 
@@ -247,5 +256,5 @@ def circulation_figure(res) -> go.Figure:
     pad = max(0.05 * abs(res.circulation_m2_s), 0.5 * (hi - lo), 1e-9)
     fig.update_yaxes(range=[lo - pad, hi + pad])
     fig.update_xaxes(range=[0.0, float(sizes.max()) * 1.05])
-    fig.update_layout(legend=dict(orientation="h", y=-0.2, x=0.0), margin=dict(b=110))
+    fig.update_layout(legend=dict(orientation="h", y=-0.28, x=0.0), margin=dict(b=130))
     return fig

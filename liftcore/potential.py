@@ -467,10 +467,10 @@ def ideal_spinning_cylinder(radius_m: float, speed_m_s: float, spin_rad_s: float
     warnings = [
         ModelWarning("potential_flow_not_real_force",
                      "Ideal (inviscid) flow: a real cylinder's boundary layer separates, so its "
-                     "lift is far smaller than rho V Gamma with the no-slip circulation. Not a "
-                     "real force for design.", "lift_per_span_n_m"),
+                     "lift is far smaller than ρVΓ with the no-slip circulation. Not a real "
+                     "force for design.", "lift_per_span_n_m"),
         ModelWarning("ideal_lift_coefficient",
-                     "2 pi SR is the ideal-flow value; measured spinning cylinders separate and "
+                     "2π SR is the ideal-flow value; measured spinning cylinders separate and "
                      "fall far below it.", "lift_coefficient"),
         ModelWarning("ideal_zero_drag",
                      "Zero drag is the ideal-flow result (d'Alembert's paradox); a real spinning "

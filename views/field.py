@@ -1,5 +1,7 @@
 """Circulation from a measured field: line integrals of a gridded velocity field round the body."""
 
+import re
+
 import streamlit as st
 
 from liftcore import fieldcirc
@@ -50,7 +52,8 @@ extra = None
 try:
     if upload is not None:
         extra = _read_upload(upload.getvalue(), upload.name)
-        st.caption(f"Field from your file **{upload.name}** ({len(extra)} rows).")
+        shown_name = re.sub(r"([\\`*_{}\[\]()#+\-.!<>|~$])", r"\\\1", upload.name)
+        st.caption(f"Field from your file {shown_name} ({len(extra)} rows).")
     else:
         st.info(study.DEMO_NOTE, icon=":material/science:")
     result = common.run_cached(study.KIND, values, extra=extra, label="Integrating round the loops")

@@ -27,7 +27,7 @@ INPUTS = InputSpec(KIND, (
     number("body_radius_m", "Body radius", "length", 0.05, 1e-4, 1000.0, section="Body",
            help="Loops must stay at least one grid cell outside this radius."),
     choice("loop_shape", "Loop shape", fc.LOOP_SHAPES, default="circle",
-           labels=("Circles round the body centre", "Rectangles round the body centre"), section="Loops"),
+           labels=("Circles", "Rectangles"), section="Loops"),
     number("rectangle_aspect", "Rectangle width / height", "ratio", 1.0, 0.2, 5.0, section="Loops",
            step=0.1, help="Width over height of the rectangular loops (1 = squares)."),
     number("loop_min_m", "Smallest loop size", "length", 0.08, 1e-4, 10000.0, section="Loops",
@@ -38,12 +38,12 @@ INPUTS = InputSpec(KIND, (
             help="Loops evenly spaced in size from the smallest to the largest. The outer half "
                  "count toward the estimate and its spread."),
     choice("free_stream_mode", "Free-stream speed", ("edges", "given"), default="edges",
-           labels=("Estimate from the grid edges", "Give it"), section="Free stream and fluid",
+           labels=("From the grid edges", "Given"), section="Free stream and fluid",
            help="The edge estimate is the mean velocity round the outer edge of the grid."),
     number("free_stream_m_s", "Given free-stream speed", "speed", 10.0, 0.001, 1000.0,
            section="Free stream and fluid"),
     choice("density_mode", "Fluid density", ("air", "given"), default="air",
-           labels=("Air, from the air state", "Give it (e.g. water)"), section="Free stream and fluid"),
+           labels=("Air (air state below)", "Given (e.g. water)"), section="Free stream and fluid"),
     number("density_kg_m3", "Given density", "density", 1.225, 0.01, 2000.0,
            section="Free stream and fluid", help="For water about 998 kg/m³ at 20 °C (common practice)."),
 ) + air_inputs())
@@ -105,9 +105,9 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                  "force_per_span", 4, "Kutta-Joukowski with the free-stream speed and density used."),
         Headline("lift_spread_n_m", "Lift spread ±", res.lift_spread_n_m, "force_per_span", 2),
         Headline("free_stream_speed_m_s", "Free-stream speed", res.free_stream_speed_m_s, "speed", 4),
-        Headline("lift_direction_deg", "Lift direction (from +x, counter-clockwise)",
-                 res.lift_direction_deg, "angle", 3,
-                 "At right angles to the free stream, toward the faster side."),
+        Headline("lift_direction_deg", "Lift direction", res.lift_direction_deg, "angle", 3,
+                 "Counter-clockwise from +x; at right angles to the free stream, toward the side "
+                 "where the flow is faster."),
         Headline("density_kg_m3", "Fluid density", rho, "density", 4),
         Headline("grid_points", "Grid points", float(field.x_m.size * field.y_m.size), "ratio", 6,
                  f"{field.x_m.size} x {field.y_m.size}, spacing {field.spacing_m[0]:.3g} m by "

@@ -21,7 +21,7 @@ INPUTS = InputSpec(KIND, (
     number("speed_m_s", "Flow speed", "speed", 8.0, 0.1, 200.0, section="Cylinder and flow",
            help="Speed of the undisturbed stream, flowing left to right in the pictures."),
     choice("spin_mode", "Give the spin as", ("ratio", "rpm"), default="ratio",
-           labels=("Spin ratio (surface speed / flow speed)", "Rotation rate in rpm"), section="Spin",
+           labels=("Spin ratio", "Rotation rate (rpm)"), section="Spin",
            help="Spin ratio SR = ωR/V, or the rotation rate, from which SR follows."),
     number("spin_ratio", "Spin ratio ωR/V", "ratio", 1.0, -10.0, 10.0, section="Spin", step=0.1,
            help="Positive: clockwise in the pictures, the top surface moves with the stream and "
