@@ -221,7 +221,8 @@ def _read_table(text: str, source: str) -> dict:
     try:
         df = pd.read_csv(io.StringIO(text), skipinitialspace=True, comment="#")
     except Exception as exc:  # pandas raises several parser errors
-        raise InputError("coefficients", f"{source} is not a readable CSV table ({exc})".split("\n")[0]) from None
+        reason = str(exc).strip().splitlines()[0] if str(exc).strip() else type(exc).__name__
+        raise InputError("coefficients", f"{source} is not a readable CSV table ({reason})") from None
     return _table_from_frame(df, source)
 
 

@@ -72,12 +72,15 @@ DISC_MOMENT_CONSTANT = 0.146
 #: line does not describe; the power there is negligible anyway).
 FRICTION_RE_MIN = 1.0e5
 
-#: Spin-ratio grid of the best-spin search and golden-section refinement steps.
-BEST_GRID_POINTS = 33
-GOLDEN_STEPS = 28
-BOUNDARY_STEPS = 30
-#: Conditions evaluated per block in the best-spin search (bounds memory: grid x block x strips).
-BLOCK = 2048
+#: Best-spin search: coarse grid over the whole spin range, fine grid between the best coarse
+#: point's neighbours, golden-section steps after it and bisection steps for a limit boundary.
+BEST_GRID_POINTS = 25
+FINE_GRID_POINTS = 13
+GOLDEN_STEPS = 20
+BOUNDARY_STEPS = 24
+#: Conditions evaluated per block in the best-spin search (keeps grid x block x strips arrays
+#: small enough to stay in cache).
+BLOCK = 512
 
 #: Thresholds of the "unlike the tested rotor" warnings (our choice, not from a source).
 ASPECT_RATIO_TOLERANCE = 1.5     # warn when H/D differs from the set's by more than this factor
@@ -492,6 +495,17 @@ def _feasible(setup: RotorSetup, res: dict, rel: float = 1e-9):
     return ok_p & ok_h
 
 
+def _search(setup: RotorSetup, w: _Wind, omega):
+    """(net gain, within the motor-power and heel limits) for angular speeds (..., N)."""
+    res = _evaluate(setup, w, omega)
+    return res["net"], _feasible(setup, res)
+
+
+def _take(w: _Wind, idx) -> _Wind:
+    """The wind of a subset of the conditions."""
+    return _Wind(**{name: getattr(w, name)[idx] for name in w.__dataclass_fields__})
+
+
 def _prepare(ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad, *extra):
     arrays = [np.asarray(a, dtype=float) for a in (ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad) + extra]
     shape = np.broadcast_shapes(*(a.shape for a in arrays))
@@ -550,12 +564,14 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     -----
     The operating spin ratio is searched in [0, SR_top] with SR_top the smallest of the highest
     spin ratio allowed, the top of the coefficient data and the spin ratio of the maximum rpm.
-    The motor-power and heeling-moment limits are constraints. All conditions are solved at once:
-    a grid of ``BEST_GRID_POINTS`` spin ratios per condition, the best feasible grid point, a
-    bisection for the limit boundary when the next grid point breaks a limit, then a golden-section
-    refinement between the neighbouring grid points (no loop over conditions). A stopped rotor
-    (SR = 0; its drag as a still cylinder is counted) is always allowed and is chosen when no spin
-    pays more.
+    The motor-power and heeling-moment limits are constraints. All conditions are solved at once
+    (no loop over conditions): a grid of ``BEST_GRID_POINTS`` spin ratios per condition gives the
+    best grid point that keeps the limits; a bisection locates the limit boundary between the two
+    grid points where a limit starts (or stops) binding with the most net gain beside it; a fine
+    grid of ``FINE_GRID_POINTS`` between the best grid point's neighbours (cut at that boundary)
+    and a golden-section search around the best fine point refine it; the best of these
+    candidates is kept. A stopped rotor (SR = 0; its drag as a still
+    cylinder is counted) is always allowed and is chosen when no spin pays more.
 
     Parameters
     ----------
@@ -595,7 +611,7 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
 
 
 def _best_omega(setup: RotorSetup, w: _Wind) -> np.ndarray:
-    """Best angular speed for each condition of a block (vectorised search)."""
+    """Best angular speed for each condition of a block (vectorised search, see best_operation)."""
     r = setup.radius_m
     va = w.va_mid
     calm = va <= CALM_M_S
@@ -603,57 +619,75 @@ def _best_omega(setup: RotorSetup, w: _Wind) -> np.ndarray:
     omega_top = np.minimum(setup.spin_ratio_limit() * va_safe / r, setup.max_rpm / _RPM_PER_RAD_S)
     omega_top = np.where(calm, 0.0, omega_top)
     k = BEST_GRID_POINTS
-    t = np.linspace(0.0, 1.0, k)[:, None]
-    grid = t * omega_top[None, :]                                        # (K, N)
-    res = _evaluate(setup, w, grid)
-    ok = _feasible(setup, res)
+    grid = np.linspace(0.0, 1.0, k)[:, None] * omega_top[None, :]        # (K, N)
+    net_g, okr = _search(setup, w, grid)
+    ok = okr.copy()
     ok[0] = True                                                          # stopping is always allowed
-    net = np.where(ok, res["net"], -np.inf)
+    net = np.where(ok, net_g, -np.inf)
     i_best = np.argmax(net, axis=0)                                      # (N,)
     cols = np.arange(grid.shape[1])
     best_x = grid[i_best, cols]
     best_f = net[i_best, cols]
-    # bracket around the best grid point
-    i_lo = np.maximum(i_best - 1, 0)
-    i_hi = np.minimum(i_best + 1, k - 1)
-    lo = np.where(ok[i_lo, cols], grid[i_lo, cols], best_x)
-    hi_x = grid[i_hi, cols]
-    hi_ok = ok[i_hi, cols]
-    # where the next grid point breaks a limit, bisect for the boundary (feasible side kept)
-    need = ~hi_ok & (i_hi > i_best)
-    if need.any():
-        a, b = best_x.copy(), hi_x.copy()
+    # A limit binds between two neighbouring grid points of which one keeps it and the other
+    # breaks it; the optimum may sit on that boundary. Take the crossing whose feasible side has
+    # the most net gain and bisect it (feasible side kept).
+    net_r = np.where(okr, net_g, -np.inf)
+    up = okr[:-1] & ~okr[1:]                                              # keeps at i, breaks at i+1
+    down = ~okr[:-1] & okr[1:]                                            # breaks at i, keeps at i+1
+    score = np.concatenate([np.where(up, net_r[:-1], -np.inf), np.where(down, net_r[1:], -np.inf)])
+    pick = np.argmax(score, axis=0)
+    has_edge = np.isfinite(score[pick, cols])
+    is_up = pick < k - 1
+    i_t = np.where(is_up, pick, pick - (k - 1))                           # crossing between i_t, i_t+1
+    keep_x = np.where(is_up, grid[i_t, cols], grid[np.minimum(i_t + 1, k - 1), cols])
+    break_x = np.where(is_up, grid[np.minimum(i_t + 1, k - 1), cols], grid[i_t, cols])
+    edge = keep_x.copy()
+    sub = np.flatnonzero(has_edge)
+    if sub.size:
+        ws = _take(w, sub)
+        a, b = keep_x[sub], break_x[sub]
         for _ in range(BOUNDARY_STEPS):
             m = 0.5 * (a + b)
-            fm = _feasible(setup, _evaluate(setup, w, m))
-            a = np.where(need & fm, m, a)
-            b = np.where(need & ~fm, m, b)
-        hi_x = np.where(need, a, hi_x)
-    hi = np.where(i_hi > i_best, hi_x, best_x)
-    # golden-section maximisation of the net gain on [lo, hi]
-    a, b = lo, hi
+            fm = _search(setup, ws, m)[1]
+            a = np.where(fm, m, a)
+            b = np.where(fm, b, m)
+        edge[sub] = a
+    # bracket around the best grid point, cut at the boundary where a neighbour breaks a limit
+    i_lo = np.maximum(i_best - 1, 0)
+    i_hi = np.minimum(i_best + 1, k - 1)
+    hi_edge = has_edge & is_up & (i_t == i_best)
+    lo_edge = has_edge & ~is_up & (i_t + 1 == i_best)
+    lo = np.where(okr[i_lo, cols], grid[i_lo, cols], np.where(lo_edge, edge, best_x))
+    hi = np.where(okr[i_hi, cols], grid[i_hi, cols], np.where(hi_edge, edge, best_x))
+    # fine grid in the bracket (the net gain can have several small bumps near its top) ...
+    fine = lo + np.linspace(0.0, 1.0, FINE_GRID_POINTS)[:, None] * (hi - lo)
+    net_f, ok_f = _search(setup, w, fine)
+    net_f = np.where(ok_f | (fine == 0.0), net_f, -np.inf)
+    j = np.argmax(net_f, axis=0)
+    fine_x, fine_f = fine[j, cols], net_f[j, cols]
+    a = fine[np.maximum(j - 1, 0), cols]
+    b = fine[np.minimum(j + 1, FINE_GRID_POINTS - 1), cols]
+    # ... then golden-section maximisation between the best fine point's neighbours
     c = b - _GOLDEN * (b - a)
     d = a + _GOLDEN * (b - a)
-    fc = _evaluate(setup, w, c)["net"]
-    fd = _evaluate(setup, w, d)["net"]
+    fc = _search(setup, w, c)[0]
+    fd = _search(setup, w, d)[0]
     for _ in range(GOLDEN_STEPS):
         left = fc >= fd
         b = np.where(left, d, b)
         a = np.where(left, a, c)
         new = np.where(left, b - _GOLDEN * (b - a), a + _GOLDEN * (b - a))
-        fnew = _evaluate(setup, w, new)["net"]
-        fd = np.where(left, fc, fnew)
-        fc = np.where(left, fnew, fc)
+        fnew = _search(setup, w, new)[0]
+        fc, fd = np.where(left, fnew, fd), np.where(left, fc, fnew)
         c, d = np.where(left, new, d), np.where(left, c, new)
     x_g = 0.5 * (a + b)
-    candidates = np.stack([best_x, x_g, hi])                             # (3, N)
-    res_c = _evaluate(setup, w, candidates)
-    ok_c = _feasible(setup, res_c) | (candidates == 0.0)
-    f_c = np.where(ok_c, res_c["net"], -np.inf)
-    j = np.argmax(f_c, axis=0)
-    x = candidates[j, cols]
-    f = f_c[j, cols]
-    x = np.where(f >= best_f, x, best_x)
+    candidates = np.stack([best_x, fine_x, x_g, edge])                   # (4, N)
+    net_c, ok_c = _search(setup, w, candidates)
+    f_c = np.where(ok_c | (candidates == 0.0), net_c, -np.inf)
+    jc = np.argmax(f_c, axis=0)
+    x = candidates[jc, cols]
+    f = f_c[jc, cols]
+    x = np.where(f >= np.maximum(best_f, fine_f), x, np.where(fine_f > best_f, fine_x, best_x))
     return np.where(calm, 0.0, x)
 
 
@@ -940,3 +974,32 @@ def with_coefficients(setup: RotorSetup, coefficients: coef.CoefficientSet) -> R
     from dataclasses import replace
 
     return replace(setup, coefficients=coefficients)
+
+
+# ============================================================================ curves for charts
+@dataclass(frozen=True)
+class CoefficientCurves:
+    """A set's coefficients over its spin-ratio range as used on this rotor (for charts)."""
+
+    spin_ratio: np.ndarray
+    lift_coefficient: np.ndarray
+    drag_coefficient: np.ndarray
+    power_coefficient: np.ndarray
+    power_from_friction_model: bool
+
+
+def coefficient_curves(setup: RotorSetup, apparent_wind_speed_m_s: float, points: int = 121) -> CoefficientCurves:
+    """CL, CD (induced drag moved to this rotor when ``correct_aspect_ratio``) and CP over the
+    set's spin-ratio range. Without a power coefficient in the set, CP is the skin-friction
+    model's power expressed as P / (q D H V) at the given apparent wind speed."""
+    lo, hi = setup.coefficients.sr_range
+    sr = np.linspace(lo, hi, points)
+    cl, cd, cp = setup.rotor_coefficients(sr)
+    friction = cp is None
+    if friction:
+        v = max(float(apparent_wind_speed_m_s), 0.1)
+        omega = sr * v / setup.radius_m
+        p = spin_power_skin_friction(omega, setup.diameter_m, setup.height_m, setup.end_plate_ratio,
+                                     setup.air_density_kg_m3, setup.kinematic_viscosity_m2_s)
+        cp = p / (0.5 * setup.air_density_kg_m3 * v ** 3 * setup.area_m2)
+    return CoefficientCurves(sr, cl, cd, cp, friction)

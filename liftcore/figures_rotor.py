@@ -1,0 +1,188 @@
+"""Charts of the rotor page: coefficient sets against spin ratio, thrust and net gain around the
+compass, and the wind along the rotor height. Each builder takes the study's detail and a unit
+system and only draws; every number comes from the study run.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from liftcore import units
+from liftcore.figures import FONT_SIZE, LINE_WIDTH, band, base_figure, colour
+
+#: Colour of the spread between coefficient sets, and of the theory line.
+SPREAD_COLOUR = "#56B4E9"
+THEORY_COLOUR = "#000000"
+
+_WHICH = {
+    "lift": ("lift_coefficient", "Lift coefficient CL", "How much lift each coefficient set gives"),
+    "drag": ("drag_coefficient", "Drag coefficient CD", "How much drag each coefficient set gives"),
+    "power": ("power_coefficient", "Spin-power coefficient CP",
+              "How much power spinning takes in each coefficient set"),
+}
+
+
+def _disp(value, kind, system):
+    return units.to_display(np.asarray(value, dtype=float), kind, system)
+
+
+def _label(kind, system):
+    return units.unit_label(kind, system)
+
+
+def _styled_subplots(title: str, height: int, **kw) -> go.Figure:
+    fig = make_subplots(figure=base_figure(title, height=height), **kw)
+    fig.update_xaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5",
+                     zeroline=False, ticks="outside")
+    fig.update_yaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5",
+                     zeroline=False, ticks="outside")
+    fig.update_annotations(font_size=FONT_SIZE)
+    return fig
+
+
+def _is_real(cs) -> bool:
+    return cs.kind != "theory"
+
+
+def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
+    """One coefficient against spin ratio for every set, the spread between the sets with data
+    shaded, and the operating point marked."""
+    attr, y_title, question = _WHICH[which]
+    corrected = detail.setup.correct_aspect_ratio and which == "drag"
+    title = question + (" (induced drag for this rotor's aspect ratio)" if corrected else "")
+    fig = base_figure(title, "Spin ratio SR", y_title, height=430)
+    real = [c for c in detail.comparisons if _is_real(c.coefficients)]
+    # spread between the sets with data, on a common grid where at least two sets are defined
+    top = max(c.curves.spin_ratio[-1] for c in real) if real else 0.0
+    x = np.linspace(0.0, top, 161)
+    stack = []
+    for c in real:
+        cv = c.curves
+        y = np.interp(x, cv.spin_ratio, getattr(cv, attr), left=np.nan, right=np.nan)
+        stack.append(y)
+    if len(stack) >= 2:
+        arr = np.vstack(stack)
+        count = np.sum(np.isfinite(arr), axis=0)
+        keep = count >= 2
+        if keep.any():
+            lo = np.where(np.isfinite(arr), arr, np.inf).min(axis=0)
+            hi = np.where(np.isfinite(arr), arr, -np.inf).max(axis=0)
+            band(fig, x[keep], lo[keep], hi[keep], "Spread between data sets", SPREAD_COLOUR, 0.25)
+    y_cap = 0.0
+    for i, c in enumerate(detail.comparisons):
+        cs = c.coefficients
+        cv = c.curves
+        y = getattr(cv, attr)
+        chosen = cs is detail.setup.coefficients
+        name = cs.label
+        if which == "power" and cv.power_from_friction_model:
+            name += " — skin-friction model at this wind"
+        dash = "dash" if cs.kind == "theory" else ("dot" if which == "power" and cv.power_from_friction_model else "solid")
+        col = THEORY_COLOUR if cs.kind == "theory" else colour(i)
+        fig.add_trace(go.Scatter(x=cv.spin_ratio, y=y, mode="lines", name=name,
+                                 line=dict(color=col, width=LINE_WIDTH * (1.5 if chosen else 1.0), dash=dash),
+                                 hovertemplate="SR %{x:.2f}<br>" + attr.split("_")[0] + " %{y:.3f}<extra>" + cs.name + "</extra>"))
+        if _is_real(cs):
+            y_cap = max(y_cap, float(np.nanmax(y)))
+    op = detail.operation
+    fig.add_trace(go.Scatter(x=[float(op.spin_ratio)], y=[float(getattr(op, attr))], mode="markers",
+                             name="Operating point", marker=dict(symbol="diamond", size=18, color="#D55E00",
+                                                                 line=dict(width=2, color="#000"))))
+    y_op = float(getattr(op, attr))
+    if y_cap > 0:
+        fig.update_yaxes(range=[min(0.0, y_op), max(y_cap, y_op) * 1.15])
+    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.18, x=0.0))
+    fig.update_layout(margin=dict(b=150))
+    return fig
+
+
+def polar_figure(detail, system: str = "SI") -> go.Figure:
+    """Thrust and net power gain against the true wind angle at the current wind and ship speed,
+    with the spread between the sets with data shaded and the current angle marked."""
+    fig = _styled_subplots("Thrust and net power gain around the compass (this wind and ship speed)",
+                           height=560, rows=1, cols=2, specs=[[{"type": "polar"}, {"type": "polar"}]],
+                           subplot_titles=(f"Thrust [{_label('large_force', system)}]",
+                                           f"Net power gain [{_label('power', system)}]"))
+    theta = detail.sweep_angles_deg
+    real = [c for c in detail.comparisons if _is_real(c.coefficients)]
+    chosen = next(c for c in detail.comparisons if c.coefficients is detail.setup.coefficients)
+    for col, (attr, kind) in enumerate((("thrust_n", "large_force"), ("net_power_w", "power")), start=1):
+        polar = "polar" if col == 1 else "polar2"
+        vals = [_disp(getattr(c.sweep, attr), kind, system) for c in real]
+        r_all = vals + [_disp(getattr(chosen.sweep, attr), kind, system)]
+        if len(vals) >= 2:
+            lo, hi = np.min(vals, axis=0), np.max(vals, axis=0)
+            fig.add_trace(go.Scatterpolar(r=np.concatenate([lo, hi[::-1]]), theta=np.concatenate([theta, theta[::-1]]),
+                                          fill="toself", fillcolor="rgba(86,180,233,0.25)", line=dict(width=0),
+                                          name="Spread between data sets", hoverinfo="skip",
+                                          showlegend=col == 1, subplot=polar))
+        r = _disp(getattr(chosen.sweep, attr), kind, system)
+        fig.add_trace(go.Scatterpolar(r=r, theta=theta, mode="lines", name=chosen.coefficients.label,
+                                      line=dict(color=colour(0), width=LINE_WIDTH), showlegend=col == 1,
+                                      subplot=polar, hovertemplate="true wind %{theta:.0f}°<br>%{r:,.1f}<extra></extra>"))
+        now = float(_disp(getattr(detail.operation, attr), kind, system))
+        fig.add_trace(go.Scatterpolar(r=[now], theta=[detail.true_wind_angle_deg], mode="markers",
+                                      name="Current true wind angle", showlegend=col == 1, subplot=polar,
+                                      marker=dict(symbol="diamond", size=16, color="#D55E00",
+                                                  line=dict(width=2, color="#000"))))
+        rmin = min(0.0, float(np.min([np.min(v) for v in r_all] + [now])))
+        rmax = max(1e-9, float(np.max([np.max(v) for v in r_all] + [now])))
+        pad = 0.08 * (rmax - rmin)
+        fig.add_trace(go.Scatterpolar(r=np.zeros(73), theta=np.linspace(-180, 180, 73), mode="lines",
+                                      line=dict(color="#444", width=1.5, dash="dot"), name="Zero",
+                                      showlegend=col == 1, hoverinfo="skip", subplot=polar))
+        fig.update_layout({polar: dict(
+            angularaxis=dict(rotation=90, direction="clockwise", tickmode="array",
+                             tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
+                             ticktext=["0° bow", "45°", "90° stbd", "135°", "180° stern", "-135°",
+                                       "-90° port", "-45°"]),
+            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=90, tickangle=90))})
+    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.05, x=0.0), margin=dict(b=110, t=110))
+    return fig
+
+
+def span_figure(detail, system: str = "SI") -> go.Figure:
+    """True and apparent wind, apparent wind angle and spin ratio along the rotor height."""
+    p = detail.span
+    h_kind = "length"
+    z = _disp(p.height_m, h_kind, system)
+    fig = _styled_subplots("How the wind changes along the rotor height", height=520, rows=1, cols=3,
+                           shared_yaxes=True, horizontal_spacing=0.05,
+                           subplot_titles=(f"Wind speed [{_label('wind_speed', system)}]",
+                                           "Apparent wind angle [°]", "Spin ratio along the rotor"))
+    fig.add_trace(go.Scatter(x=_disp(p.true_wind_speed_m_s, "wind_speed", system), y=z, mode="lines",
+                             name="True wind", line=dict(color=colour(2), width=LINE_WIDTH)), row=1, col=1)
+    fig.add_trace(go.Scatter(x=_disp(p.apparent_wind_speed_m_s, "wind_speed", system), y=z, mode="lines",
+                             name="Apparent wind", line=dict(color=colour(0), width=LINE_WIDTH)), row=1, col=1)
+    fig.add_trace(go.Scatter(x=p.apparent_wind_angle_deg, y=z, mode="lines", name="Apparent wind angle",
+                             line=dict(color=colour(0), width=LINE_WIDTH), showlegend=False), row=1, col=2)
+    fig.add_trace(go.Scatter(x=p.spin_ratio, y=z, mode="lines", name="Spin ratio",
+                             line=dict(color=colour(1), width=LINE_WIDTH), showlegend=False), row=1, col=3)
+    strip_sr = np.interp(p.strip_heights_m, p.height_m, np.nan_to_num(p.spin_ratio))
+    fig.add_trace(go.Scatter(x=strip_sr, y=_disp(p.strip_heights_m, h_kind, system), mode="markers",
+                             name=f"Strip midpoints ({len(p.strip_heights_m)})",
+                             marker=dict(color=colour(1), size=9)), row=1, col=3)
+    base, top = float(_disp(p.base_height_m, h_kind, system)), float(_disp(p.top_height_m, h_kind, system))
+    for col in (1, 2, 3):
+        fig.add_hrect(y0=base, y1=top, fillcolor="rgba(120,120,120,0.12)", line_width=0, row=1, col=col)
+    zref = float(_disp(p.reference_height_m, h_kind, system))
+    fig.add_hline(y=zref, line=dict(color="#444", width=1.5, dash="dot"), row=1, col=1,
+                  annotation_text="height of the given wind", annotation_position="bottom right")
+    fig.add_annotation(x=0.0, y=top, xref="x domain", yref="y", text="rotor top", showarrow=False,
+                       xanchor="left", yanchor="bottom", font=dict(size=FONT_SIZE - 3))
+    fig.update_yaxes(title_text=f"Height above the waterline [{_label(h_kind, system)}]", row=1, col=1)
+    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.14, x=0.0), margin=dict(b=110, t=100))
+    return fig
+
+
+def all_figures(detail, system: str = "SI") -> tuple:
+    """(title, figure) pairs of the rotor study, each answering one question."""
+    return (
+        ("Lift coefficient against spin ratio", coefficient_figure(detail, "lift", system)),
+        ("Drag coefficient against spin ratio", coefficient_figure(detail, "drag", system)),
+        ("Spin-power coefficient against spin ratio", coefficient_figure(detail, "power", system)),
+        ("Thrust and net power gain around the compass", polar_figure(detail, system)),
+        ("Wind along the rotor height", span_figure(detail, system)),
+    )

@@ -1,0 +1,134 @@
+"""The rotor page: it renders, and what it shows after an interaction is the core's number."""
+
+import math
+from pathlib import Path
+
+import pytest
+from numpy.testing import assert_allclose
+from streamlit.testing.v1 import AppTest
+
+from liftcore import rotor, units
+from liftcore.constants import KNOT_M_S
+from liftcore.studies import format_number
+from liftcore.studies import rotor as study
+
+PAGE = str(Path(__file__).resolve().parents[1] / "views" / "rotor.py")
+
+
+def key(name, system="SI"):
+    return f"w:rotor:{name}:{system}"
+
+
+@pytest.fixture
+def page():
+    at = AppTest.from_file(PAGE, default_timeout=120)
+    at.run()
+    assert not at.exception
+    return at
+
+
+def metric(at, label):
+    for m in at.metric:
+        if m.label == label:
+            return m.value
+    raise KeyError(f"{label!r} not on the page; shown: {[m.label for m in at.metric]}")
+
+
+def core_op(values):
+    clean = study.INPUTS.validate(values)
+    setup, op = study.operating_point(clean)
+    return op
+
+
+def test_page_renders_with_title_headlines_charts_and_cautions(page):
+    assert page.title[0].value == "Rotor sail on a ship"
+    labels = [m.label for m in page.metric]
+    for label in ("Net power gain", "Thrust along the heading", "Spin power (shaft)", "Heeling moment",
+                  "Side force", "Apparent wind angle", "Spin ratio", "Lift coefficient", "Drag coefficient"):
+        assert label in labels
+    assert len(page.get("plotly_chart")) == 5
+    cautions = " ".join(i.value for i in page.info)
+    assert "naval architect" in cautions and "gusts" in cautions
+    # the default page is the study's default case, as the core computes it
+    op = core_op({})
+    assert metric(page, "Thrust along the heading") == f"{format_number(op.thrust_n / 1000)} kN"
+
+
+def test_changing_ship_speed_and_wind_matches_the_core(page):
+    page.number_input(key=key("ship_speed_m_s")).set_value(4.0)
+    page.number_input(key=key("true_wind_speed_m_s")).set_value(14.0)
+    page.number_input(key=key("true_wind_angle_deg")).set_value(-120.0)
+    page.run()
+    assert not page.exception
+    op = core_op({"ship_speed_m_s": 4.0, "true_wind_speed_m_s": 14.0, "true_wind_angle_deg": -120.0})
+    assert metric(page, "Net power gain") == f"{format_number(op.net_power_w / 1000)} kW"
+    assert metric(page, "Side force") == f"{format_number(op.side_force_n / 1000)} kN"
+    assert metric(page, "Apparent wind angle") == f"{format_number(float(op.apparent_wind_angle_deg))} °"
+
+
+def test_fixed_rotor_speed_shows_and_uses_the_rpm_input(page):
+    page.selectbox(key=key("spin_mode")).set_value("rpm")
+    page.run()
+    # the rotor-speed input appears in the same rerun as the choice
+    page.number_input(key=key("spin_rpm")).set_value(90.0)
+    page.run()
+    assert not page.exception
+    op = core_op({"spin_mode": "rpm", "spin_rpm": 90.0})
+    assert_allclose(op.rpm, 90.0)
+    assert metric(page, "Rotor speed") == "90 rpm"
+    assert metric(page, "Thrust along the heading") == f"{format_number(op.thrust_n / 1000)} kN"
+
+
+def test_marine_units_show_knots_and_keep_the_numbers(page):
+    page.session_state["unit_system"] = "marine"
+    page.run()
+    assert not page.exception
+    assert page.number_input(key=key("ship_speed_m_s", "marine")).value == pytest.approx(12.0)
+    page.number_input(key=key("ship_speed_m_s", "marine")).set_value(8.0)
+    page.run()
+    op = core_op({"ship_speed_m_s": 8.0 * KNOT_M_S})
+    shown = units.to_display(float(op.apparent_wind_speed_m_s), "wind_speed", "marine")
+    assert metric(page, "Apparent wind at mid-height") == f"{format_number(shown)} kn"
+
+
+def test_user_coefficient_table_on_the_page(page):
+    page.selectbox(key=key("coefficient_set")).set_value("user")
+    page.run()
+    assert not page.exception
+    assert any("CSV" in e.value or "empty" in e.value for e in page.error)  # asks for a table
+    table = "SR,CL,CD\n0,0,0.7\n1,2.2,0.5\n2,5.0,1.3\n3,7.5,2.4\n"
+    page.text_area(key=key("user_coefficients_csv", "all")).set_value(table)
+    page.run()
+    assert not page.exception and not page.error
+    op = core_op({"coefficient_set": "user", "user_coefficients_csv": table})
+    assert metric(page, "Net power gain") == f"{format_number(op.net_power_w / 1000)} kW"
+    # a broken table gives one clear line and keeps what was typed
+    broken = "SR,CL,CD\n0,0,0.7\n2,2.2,0.5\n1,5.0,1.3\n"
+    page.text_area(key=key("user_coefficients_csv", "all")).set_value(broken)
+    page.run()
+    assert not page.exception
+    assert page.error[0].value == ("your coefficient table: SR must increase from row to row "
+                                   "(data row 3: 1 after 2)")
+    assert page.text_area(key=key("user_coefficients_csv", "all")).value == broken
+
+
+def test_compass_directions_give_the_same_answer_as_the_relative_angle(page):
+    page.selectbox(key=key("wind_angle_reference")).set_value("compass")
+    page.run()
+    page.number_input(key=key("heading_deg")).set_value(200.0)
+    page.number_input(key=key("true_wind_direction_deg")).set_value(290.0)
+    page.run()
+    assert not page.exception
+    op = core_op({"true_wind_angle_deg": 90.0})
+    assert metric(page, "Thrust along the heading") == f"{format_number(op.thrust_n / 1000)} kN"
+
+
+def test_limit_warning_sits_beside_its_number(page):
+    page.number_input(key=key("max_motor_power_w")).set_value(40.0)  # kW in the SI display
+    page.run()
+    assert not page.exception
+    captions = [c.value for c in page.caption]
+    assert any("maximum motor power 40 kW" in c for c in captions)
+    setup = rotor.setup_from_inputs({"max_motor_power_w": 40_000.0})
+    op = rotor.best_operation(setup, 12 * KNOT_M_S, 20 * KNOT_M_S, math.radians(90))
+    assert metric(page, "Spin power (shaft)") == f"{format_number(op.spin_power_w / 1000)} kW"
