@@ -78,7 +78,7 @@ class Wind:
     def velocity_direction(self) -> tuple[float, float]:
         """Unit vector (x, y) the wind blows toward, in the internal frame (y to the left)."""
         phi = math.radians(self.from_deg)
-        return -math.cos(phi), math.sin(phi)
+        return -float(_cos(phi)), float(_sin(phi))
 
 
 WIND_PROFILES = ("uniform", "power_law")
@@ -193,6 +193,17 @@ def _check_arr(name, arr, unit, lo, hi):
         check_number(f"{name} (flight {i + 1})", float(arr.ravel()[i]), unit, low=lo, high=hi)
 
 
+def _sin(a):
+    """sin with round-off below 1e-12 set to zero (so 180 deg gives exactly no sideways part)."""
+    s = np.sin(a)
+    return np.where(np.abs(s) < 1e-12, 0.0, s)
+
+
+def _cos(a):
+    c = np.cos(a)
+    return np.where(np.abs(c) < 1e-12, 0.0, c)
+
+
 def launch_vectors(launch: Launch):
     """Initial state (7, n) [x, y, z, vx, vy, vz, omega] and spin-axis unit vectors (3, n).
 
@@ -204,12 +215,12 @@ def launch_vectors(launch: Launch):
     a = launch.arrays()
     el, az = np.radians(a["elevation_deg"]), np.radians(a["azimuth_deg"])
     tilt, rifle = np.radians(a["spin_axis_deg"]), np.radians(a["rifle_deg"])
-    hx, hy = np.cos(az), -np.sin(az)
-    ev = np.array([np.cos(el) * hx, np.cos(el) * hy, np.sin(el)])
+    hx, hy = _cos(az), -_sin(az)
+    ev = np.array([_cos(el) * hx, _cos(el) * hy, _sin(el)])
     el_ = np.array([-hy, hx, np.zeros_like(hx)])  # z x h
     eu = np.cross(ev.T, el_.T).T
-    operp = -np.cos(tilt) * el_ - np.sin(tilt) * eu
-    axis = np.cos(rifle) * operp + np.sin(rifle) * ev
+    operp = -_cos(tilt) * el_ - _sin(tilt) * eu
+    axis = _cos(rifle) * operp + _sin(rifle) * ev
     v = a["speed_m_s"]
     n = v.size
     y0 = np.empty((7, n))
@@ -224,7 +235,8 @@ def launch_vectors(launch: Launch):
 # ----------------------------------------------------------------------------- right-hand side
 class _Rhs:
     """Vectorised right-hand side for one setup. Columns are flights; per-flight parameters
-    ``P`` rows: [k_drag, k_lift, ox, oy, oz] with k = rho A scale / (2 m)."""
+    ``P`` rows: [k_drag, k_lift, oy, oz, ox, oz, ox, oy] with k = rho A scale / (2 m) and the
+    spin-axis components arranged so that omega_hat x r = P[2:5] r[(z, x, y)] - P[5:8] r[(y, z, x)]."""
 
     def __init__(self, setup: FlightSetup):
         b = setup.ball
@@ -232,33 +244,38 @@ class _Rhs:
         self.r = b.radius_m
         self.d_over_nu = b.diameter_m / setup.kinematic_viscosity_m2_s
         self.aero = setup.density_kg_m3 > 0.0
-        self.k = setup.density_kg_m3 * b.area_m2 / (2.0 * b.mass_kg)
         self.coef = setup.model.coefficients
         self.decay = (b.spin_decay / b.radius_m) if (setup.spin_decay and self.aero) else 0.0
         w = setup.wind
         self.wind_on = w.speed_m_s > 0.0
         self.power = w.profile == "power_law"
         self.wref = w.speed_m_s
-        self.wdx, self.wdy = w.velocity_direction()
+        wdx, wdy = w.velocity_direction()
+        self.wvec = np.array([[wdx], [wdy], [0.0]])
         self.zfloor = WIND_PROFILE_FLOOR_M
         self.inv_zref = 1.0 / w.ref_height_m
         self.alpha = w.exponent
         self.evals = 0
+        self.last = ()
 
-    def rel(self, Y):
-        vx, vy, vz = Y[3], Y[4], Y[5]
+    def rel5(self, Y):
+        """Air-relative velocity as rows [rx, ry, rz, rx, ry] (the repeat serves the cross product)."""
+        R5 = np.empty((5, Y.shape[1]))
         if self.wind_on:
             if self.power:
                 u = self.wref * (np.maximum(Y[2], self.zfloor) * self.inv_zref) ** self.alpha
             else:
                 u = self.wref
-            return vx - u * self.wdx, vy - u * self.wdy, vz
-        return vx, vy, vz
+            np.subtract(Y[3:6], u * self.wvec, out=R5[0:3])
+        else:
+            R5[0:3] = Y[3:6]
+        R5[3:5] = R5[0:2]
+        return R5
 
     def coefficients(self, Y):
         """(V_rel, S, Re, CD, CL) at states Y (unscaled model coefficients)."""
-        rx, ry, rz = self.rel(Y)
-        V = np.maximum(np.sqrt(rx * rx + ry * ry + rz * rz), 1e-9)
+        R = self.rel5(Y)[0:3]
+        V = np.maximum(np.sqrt((R * R).sum(0)), 1e-9)
         S = self.r * Y[6] / V
         Re = V * self.d_over_nu
         CD, CL = self.coef(S, Re, V, Y[6] * (1.0 / RPM_RAD_S))
@@ -269,33 +286,37 @@ class _Rhs:
         F = np.empty_like(Y)
         F[0:3] = Y[3:6]
         if not self.aero:
-            F[3] = 0.0
-            F[4] = 0.0
+            F[3:5] = 0.0
             F[5] = -self.g
             F[6] = 0.0
             return F
-        rx, ry, rz = self.rel(Y)
-        V = np.sqrt(rx * rx + ry * ry + rz * rz)
+        R5 = self.rel5(Y)
+        R = R5[0:3]
+        V = np.sqrt((R * R).sum(0))
         np.maximum(V, 1e-9, out=V)
         w = Y[6]
-        CD, CL = self.coef(self.r * w / V, V * self.d_over_nu, V, w * (1.0 / RPM_RAD_S))
+        S = self.r * w / V
+        Re = V * self.d_over_nu
+        self.last = (V, S, Re)
+        CD, CL = self.coef(S, Re, V, w * (1.0 / RPM_RAD_S))
         a = P[0] * CD * V
         b = P[1] * CL * V
-        ox, oy, oz = P[2], P[3], P[4]
-        F[3] = b * (oy * rz - oz * ry) - a * rx
-        F[4] = b * (oz * rx - ox * rz) - a * ry
-        F[5] = b * (ox * ry - oy * rx) - a * rz - self.g
+        cross = P[2:5] * R5[2:5] - P[5:8] * R5[1:4]
+        F[3:6] = b * cross - a * R
+        F[5] -= self.g
         F[6] = (-self.decay) * w * V
         return F
 
 
 def _params(setup: FlightSetup, axis, n, cd_scale=None, cl_scale=None):
-    P = np.empty((5, n))
-    P[0] = setup.cd_scale * setup.ball.area_m2 * setup.density_kg_m3 / (2 * setup.ball.mass_kg) \
-        if cd_scale is None else np.asarray(cd_scale) * setup.density_kg_m3 * setup.ball.area_m2 / (2 * setup.ball.mass_kg)
-    P[1] = setup.cl_scale * setup.ball.area_m2 * setup.density_kg_m3 / (2 * setup.ball.mass_kg) \
-        if cl_scale is None else np.asarray(cl_scale) * setup.density_kg_m3 * setup.ball.area_m2 / (2 * setup.ball.mass_kg)
-    P[2:5] = axis
+    """Per-flight parameter rows for :class:`_Rhs` (see its docstring)."""
+    k = setup.density_kg_m3 * setup.ball.area_m2 / (2 * setup.ball.mass_kg)
+    P = np.empty((8, n))
+    P[0] = k * (setup.cd_scale if cd_scale is None else np.asarray(cd_scale, dtype=float))
+    P[1] = k * (setup.cl_scale if cl_scale is None else np.asarray(cl_scale, dtype=float))
+    ox, oy, oz = axis
+    P[2], P[3], P[4] = oy, oz, ox
+    P[5], P[6], P[7] = oz, ox, oy
     return P
 
 
@@ -336,6 +357,11 @@ _A = (
 )
 _B = (35 / 384, 0.0, 500 / 1113, 125 / 192, -2187 / 6784, 11 / 84)
 _E = (71 / 57600, 0.0, -71 / 16695, 71 / 1920, -17253 / 339200, 22 / 525, -1 / 40)
+_A_MAT = np.zeros((7, 7))
+for _i, _row in enumerate(_A):
+    _A_MAT[_i, :len(_row)] = _row
+_B_VEC = np.array(_B)
+_E_VEC = np.array(_E)
 
 
 @dataclass(frozen=True)
@@ -427,6 +453,9 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
     Y = y0[:, ids].copy()
     Pa = P[:, ids].copy()
     track(Y, ids)
+    # running extremes of the active flights (written back when a flight finishes)
+    pk = peak[ids].copy()
+    smn, smx, rmn, rmx, vmx = smin[ids], smax[ids], remin[ids], remax[ids], vmax[ids]
     rec_t, rec_y, rec_f, rec_id = [], [], [], []
     F = rhs(Y, Pa) if ids.size else np.empty((7, 0))
     if record and ids.size:
@@ -442,22 +471,17 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
     last_report = 0.0
     while ids.size:
         steps += 1
-        K = [F]
+        m = ids.size
+        Kst = np.empty((7, 7, m))
+        Kst[0] = F
+        K2 = Kst.reshape(7, 7 * m)
         for i in range(1, 6):
-            acc = Y.copy()
-            for j, aij in enumerate(_A[i]):
-                if aij:
-                    acc += (h * aij) * K[j]
-            K.append(rhs(acc, Pa))
-        Y5 = Y.copy()
-        for j, bj in enumerate(_B):
-            if bj:
-                Y5 += (h * bj) * K[j]
+            Kst[i] = rhs(Y + h * (_A_MAT[i, :i] @ K2[:i]).reshape(7, m), Pa)
+        Y5 = Y + h * (_B_VEC @ K2[:6]).reshape(7, m)
         F5 = rhs(Y5, Pa)
-        K.append(F5)
-        E = (h * _E[0]) * K[0]
-        for j in range(2, 7):
-            E += (h * _E[j]) * K[j]
+        seen5 = rhs.last
+        Kst[6] = F5
+        E = h * (_E_VEC @ K2).reshape(7, m)
         sc = atol + rtol * np.maximum(np.abs(Y), np.abs(Y5))
         err = np.sqrt(np.mean((E / sc) ** 2, axis=0))
         ok = err <= 1.0
@@ -472,9 +496,26 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
         if up.any():
             s = Y[5, up] / (Y[5, up] - Y5[5, up])
             zap = _hermite(0.0, 1.0, Y[2, up], Y5[2, up], h[up] * Y[5, up], h[up] * Y5[5, up], s)
-            gid = ids[up]
-            peak[gid] = np.maximum(peak[gid], zap)
-        peak[ids[ok]] = np.maximum(peak[ids[ok]], Y5[2, ok])
+            pk[up] = np.maximum(pk[up], zap)
+        all_ok = bool(ok.all())
+        if all_ok:
+            np.maximum(pk, Y5[2], out=pk)
+            if rhs.aero:
+                V5, S5, Re5 = seen5
+                np.minimum(smn, S5, out=smn)
+                np.maximum(smx, S5, out=smx)
+                np.minimum(rmn, Re5, out=rmn)
+                np.maximum(rmx, Re5, out=rmx)
+                np.maximum(vmx, V5, out=vmx)
+        else:
+            pk = np.where(ok, np.maximum(pk, Y5[2]), pk)
+            if rhs.aero:
+                V5, S5, Re5 = seen5
+                smn = np.where(ok, np.minimum(smn, S5), smn)
+                smx = np.where(ok, np.maximum(smx, S5), smx)
+                rmn = np.where(ok, np.minimum(rmn, Re5), rmn)
+                rmx = np.where(ok, np.maximum(rmx, Re5), rmx)
+                vmx = np.where(ok, np.maximum(vmx, V5), vmx)
         land = ok & (Y5[2] < 0.0)
         if land.any():
             li = np.flatnonzero(land)
@@ -492,8 +533,6 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
             t_new[li] = out["t"][gid]
         t = np.where(ok, t_new, t)
         Y, F = Ynew, Fnew
-        if ok.any():
-            track(Y[:, ok], ids[ok])
         if record and ok.any():
             rec_t.append(t[ok].copy()); rec_y.append(Y[:, ok].copy()); rec_f.append(F[:, ok].copy())
             rec_id.append(ids[ok].copy())
@@ -507,8 +546,12 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
             out["x"][gid], out["y"][gid] = Y[0, ti], Y[1, ti]
             out["vx"][gid], out["vy"][gid], out["vz"][gid], out["w"][gid] = Y[3, ti], Y[4, ti], Y[5, ti], Y[6, ti]
         if done.any():
+            gd = ids[done]
+            peak[gd], smin[gd], smax[gd], remin[gd], remax[gd], vmax[gd] = (
+                pk[done], smn[done], smx[done], rmn[done], rmx[done], vmx[done])
             keep = ~done
             ids, Y, F, Pa, t, h = ids[keep], Y[:, keep], F[:, keep], Pa[:, keep], t[keep], h[keep]
+            pk, smn, smx, rmn, rmx, vmx = pk[keep], smn[keep], smx[keep], rmn[keep], rmx[keep], vmx[keep]
             if progress is not None and n >= 200:
                 frac = 1.0 - ids.size / n
                 if frac - last_report >= 0.05:
@@ -522,7 +565,7 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
         records = _split_records(n, rec_t, rec_y, rec_f, rec_id)
     return BatchResult(
         carry_m=out["x"], lateral_m=-out["y"] + 0.0, flight_time_s=out["t"], peak_height_m=peak,
-        descent_angle_deg=np.degrees(np.arctan2(-out["vz"], horiz)),
+        descent_angle_deg=np.degrees(np.arctan2(-out["vz"], horiz)) + 0.0,
         landing_speed_m_s=np.sqrt(horiz ** 2 + out["vz"] ** 2),
         landing_spin_rpm=out["w"] / RPM_RAD_S, landed=landed, s_min=smin, s_max=smax,
         re_min=remin, re_max=remax, speed_rel_max_m_s=vmax, steps=steps, rhs_evals=rhs.evals,
@@ -551,9 +594,13 @@ def simulate_rk4(setup: FlightSetup, launch: Launch, t_end: float, dt: float = 0
     for dense output by cubic Hermite interpolation (see :func:`states_at`).
     """
     y0, axis = launch_vectors(launch)
+    P = _params(setup, axis, y0.shape[1], cd_scale, cl_scale)
+    return _rk4_grid(_Rhs(setup), y0, P, t_end, dt)
+
+
+def _rk4_grid(rhs, y0, P, t_end: float, dt: float):
+    """Classical RK4 for all columns of ``y0`` on the grid 0, dt, ... >= t_end: (t, Y, F)."""
     n = y0.shape[1]
-    rhs = _Rhs(setup)
-    P = _params(setup, axis, n, cd_scale, cl_scale)
     m = int(math.ceil(t_end / dt - 1e-9))
     tg = np.arange(m + 1) * dt
     Ys = np.empty((m + 1, 7, n))
@@ -813,11 +860,14 @@ def best_launch(setup: FlightSetup, base: Launch, keys, bounds, output: str = "c
         x0 = np.asarray(start, dtype=float)
         v0 = float(f_batch(x0)[0])
     span = np.array([hi - lo for lo, hi in bnds])
+    # start simplex: 5 % of each range from the grid's best point, stepping inward at an upper bound
+    simplex = [x0]
+    for i in range(len(x0)):
+        step = 0.05 * span[i] * (1.0 if x0[i] + 0.05 * span[i] <= bnds[i][1] else -1.0)
+        simplex.append(x0 + np.eye(len(x0))[i] * step)
     res = minimize(lambda x: sign * float(f_batch(x)[0]), x0, method="Nelder-Mead", bounds=bnds,
                    options={"xatol": 1e-4 * float(span.min()), "fatol": 1e-6, "maxfev": 400,
-                            "initial_simplex": np.vstack([x0] + [x0 + np.eye(len(x0))[i] * 0.05 * span[i]
-                                                                  * (1 if x0[i] + 0.05 * span[i] <= bnds[i][1] else -1)
-                                                                  for i in range(len(x0))])})
+                            "initial_simplex": np.vstack(simplex)})
     best = sign * float(res.fun)
     if (maximise and best < v0) or (not maximise and best > v0):
         return OptimumResult(keys, tuple(float(v) for v in x0), output, v0, maximise, evals, True,
@@ -1099,20 +1149,7 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
         Y0, axis, cd, cl = unpack(theta_cols)
         n = Y0.shape[1]
         P = _params(setup, axis, n, cd, cl)
-        m = int(math.ceil(t_end / dt))
-        Ys = np.empty((m + 1, 7, n))
-        Fs = np.empty((m + 1, 7, n))
-        Y = Y0
-        F = rhs(Y, P)
-        Ys[0], Fs[0] = Y, F
-        for i in range(m):
-            k2 = rhs(Y + 0.5 * dt * F, P)
-            k3 = rhs(Y + 0.5 * dt * k2, P)
-            k4 = rhs(Y + dt * k3, P)
-            Y = Y + (dt / 6.0) * (F + 2 * k2 + 2 * k3 + k4)
-            F = rhs(Y, P)
-            Ys[i + 1], Fs[i + 1] = Y, F
-        tg = np.arange(m + 1) * dt
+        tg, Ys, Fs = _rk4_grid(rhs, Y0, P, t_end, dt)
         k = theta_cols.shape[1]
         out = np.empty((m_obs, k))
         for c in range(k):

@@ -238,7 +238,7 @@ def drag_coefficient_smits1994(spin_parameter):
     References
     ----------
     .. [1] Smits, A. J. and Smith, D. R. (1994). A new aerodynamic model of a golf ball in
-       flight. Science and Golf II, E & FN Spon, London, 340-347.
+       flight. In Science and Golf II, E & FN Spon, London (pages not checked).
     """
     return 0.24 + 0.18 * np.asarray(spin_parameter, dtype=float)
 
@@ -248,7 +248,7 @@ def lift_coefficient_smits1994(spin_parameter):
 
     References
     ----------
-    .. [1] Smits & Smith (1994), Science and Golf II, 340-347. Compare the wind-tunnel data of
+    .. [1] Smits & Smith (1994), Science and Golf II. Compare the wind-tunnel data of
        Bearman, P. W. and Harvey, J. K. (1976). Golf ball aerodynamics. Aeronaut. Q. 27, 112-122.
     """
     s = np.maximum(np.asarray(spin_parameter, dtype=float), 0.0)
@@ -426,7 +426,7 @@ MODELS: dict[str, CoefficientModel] = {
     "smits1994": CoefficientModel(
         "smits1994", "Golf: Smits & Smith (1994)",
         "Smits, A. J. and Smith, D. R. (1994). A new aerodynamic model of a golf ball in flight. "
-        "Science and Golf II, 340-347; data compare with Bearman, P. W. and Harvey, J. K. (1976). "
+        "Science and Golf II, E & FN Spon; data compare with Bearman, P. W. and Harvey, J. K. (1976). "
         "Golf ball aerodynamics. Aeronaut. Q. 27, 112-122.",
         lambda S, Re, V, rpm: (drag_coefficient_smits1994(S), lift_coefficient_smits1994(S)),
         (0.05, 0.3), (0.7e5, 2.5e5), True,
@@ -485,9 +485,9 @@ def ball_table() -> list[dict]:
     """Rows describing every ball (for pages and documentation)."""
     rows = []
     for b in BALLS.values():
-        rows.append({"ball": b.name, "key": b.key, "diameter_mm": 1000 * b.diameter_m,
-                     "mass_g": 1000 * b.mass_kg, "rule": b.rule,
-                     "default_model": MODELS[b.model].label(), "spin_decay": b.spin_decay_source})
+        rows.append({"ball": b.name, "key": b.key, "diameter_m": b.diameter_m, "mass_kg": b.mass_kg,
+                     "rule": b.rule, "default model": MODELS[b.model].label(),
+                     "spin decay": b.spin_decay_source})
     return rows
 
 

@@ -41,8 +41,11 @@ def trajectory_3d(flights, system: str = "SI") -> go.Figure:
     fig.update_layout(scene=dict(
         xaxis_title=_lbl("Downrange", "distance", system),
         yaxis_title=_lbl("Drift, right +", "distance", system),
-        zaxis_title=_lbl("Height", "length", system), aspectmode="data",
-        camera=dict(eye=dict(x=-1.4, y=-1.6, z=0.8))),
+        zaxis_title=_lbl("Height", "length", system), aspectmode="manual",
+        aspectratio=dict(x=2.4, y=1.0, z=0.8),
+        # seen from behind and to the left of the launch point; drift to the right reads rightward
+        yaxis=dict(autorange="reversed"),
+        camera=dict(eye=dict(x=-1.6, y=-2.2, z=1.1), center=dict(x=0.1, y=0, z=-0.15))),
         margin=dict(l=0, r=0, t=60, b=0))
     return fig
 
@@ -112,7 +115,7 @@ def coefficient_curves(model, flight, system: str = "SI") -> go.Figure:
     lo, hi = model.s_range
     if np.isfinite(hi):
         fig.add_vrect(x0=lo, x1=hi, fillcolor="#009E73", opacity=0.08, line_width=0,
-                      annotation_text="model's S range", annotation_position="top left")
+                      annotation_text="model's S range", annotation_position="bottom left")
     return fig
 
 
@@ -146,7 +149,8 @@ def carry_histogram(disp, system: str = "SI") -> go.Figure:
     return fig
 
 
-def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI") -> go.Figure:
+def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI",
+                  searched: tuple | None = None) -> go.Figure:
     """Which launch gives the most? The output over the grid of two inputs, best point marked."""
     xl, xk = labels[sw.x_key]
     yl, yk = labels[sw.y_key]
@@ -161,6 +165,10 @@ def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system:
                              marker=dict(size=18, symbol="star", color="#D55E00", line=dict(width=2, color="white")),
                              text=[f"{word}"], textposition="top center", textfont=dict(color="white", size=16),
                              name=f"{word} on the grid"))
+    if searched is not None:
+        fig.add_trace(go.Scatter(x=[_u(searched[0], xk, system)], y=[_u(searched[1], yk, system)], mode="markers",
+                                 marker=dict(size=16, symbol="circle-open", color="white", line=dict(width=3)),
+                                 name="searched best"))
     fig.update_layout(legend=dict(x=0, y=-0.2, orientation="h"))
     return fig
 

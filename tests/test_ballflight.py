@@ -136,8 +136,9 @@ def test_well_hit_baseball_carries_about_400_ft_and_5_percent_farther_at_1600_m(
     la = bf.Launch(100.0 * MPH, elevation, 0.0, 2000.0, 0.0, 0.0, 1.0)
     sea = bf.simulate(setup("baseball", 0.0), la)
     high = bf.simulate(setup("baseball", 1600.0), la)
-    # Meyer & Bohn (2008), Am. J. Phys. 76, 1015: a ball hit near 100 mph at 25-30 deg carries
-    # about 400 ft at sea level and about 5 % farther at 1600 m (tolerance: +/- 10 % and 3-8 %)
+    # Meyer & Bohn (2008), Am. J. Phys. 76 (humid air and a baseball's flight): a ball hit near
+    # 100 mph at 25-30 deg carries about 400 ft at sea level and about 5 % farther at 1600 m
+    # (tolerance: +/- 10 % and 3-8 %)
     assert 360.0 < sea.carry_m[0] / 0.3048 < 440.0
     assert 1.03 < high.carry_m[0] / sea.carry_m[0] < 1.08
 

@@ -22,7 +22,7 @@ from liftcore.studies import flight as study
 from liftcore.studies import format_number
 from views.common import (general_warnings, input_widget, number_text, page_tools, render_inputs,
                           run_cached, show_figure, show_headlines, show_sources_and_cautions,
-                          show_warnings, state_key, unit_system)
+                          show_warnings, state_key, table_in_units, unit_system)
 
 KIND = study.KIND
 SPEC = study.INPUTS
@@ -37,8 +37,9 @@ _RANGE_FIELDS = []
 for _k, (_label, _q, _lo, _hi) in bf.SWEEP_INPUTS.items():
     _d0, _d1 = _SWEEP_DEFAULT_RANGES[_k]
     _lo = max(_lo, -90.0) if _k == "elevation_deg" else _lo
-    _RANGE_FIELDS.append(number(f"{_k}_from", f"{_label} from", _q, _d0, _lo, _hi, section="Sweep"))
-    _RANGE_FIELDS.append(number(f"{_k}_to", f"{_label} to", _q, _d1, _lo, _hi, section="Sweep"))
+    _step = {"rotation": 100.0, "angle": 1.0, "ball_speed": 0.5, "length": 0.1}[_q]
+    _RANGE_FIELDS.append(number(f"{_k}_from", f"{_label} from", _q, _d0, _lo, _hi, section="Sweep", step=_step))
+    _RANGE_FIELDS.append(number(f"{_k}_to", f"{_label} to", _q, _d1, _lo, _hi, section="Sweep", step=_step))
 SWEEP_SPEC = InputSpec("flight_sweep", (
     choice("x_input", "Across", _SWEEP_CHOICES, default="elevation_deg", labels=_SWEEP_LABELS, section="Sweep"),
     choice("y_input", "Up", _SWEEP_CHOICES, default="spin_rpm", labels=_SWEEP_LABELS, section="Sweep"),
@@ -155,6 +156,11 @@ def _flight_tab(result, values):
     system = unit_system()
     d = result.detail
     show_headlines(result, columns=3)
+    air, b = d.air, d.setup.ball
+    st.caption(f"{b.name}: {number_text(b.diameter_m, 'small_length')}, {number_text(b.mass_kg, 'small_mass')}; "
+               f"model: {d.setup.model.label()}. Air: {number_text(d.setup.density_kg_m3, 'density', 4)}, "
+               f"{number_text(air.temperature_k, 'temperature')}, {number_text(air.pressure_pa, 'pressure', 4)}, "
+               f"humidity {100 * air.relative_humidity:.0f} %.")
     gw = general_warnings(result)
     if gw:
         with st.expander(f"Model notes and warnings ({len(gw)})", expanded=False):
@@ -243,23 +249,26 @@ def _sweep_tab(values):
     out_label, out_kind = bf.OUTPUTS[output]
     labels = {k: (v[0], v[1]) for k, v in bf.SWEEP_INPUTS.items()}
     c1, c2 = st.columns([3, 1])
-    with c1:
-        show_figure(fb.sweep_heatmap(sw, labels, out_label, out_kind, system), key="fig_sweep")
     with c2:
-        st.metric(f"Best {out_label.lower()} on the grid", number_text(sw.best_value, out_kind))
+        st.metric(f"Best {out_label.lower()} on the grid", number_text(sw.best_value, out_kind, 4))
         st.caption(f"{labels[x_key][0]}: {number_text(sw.best_x, labels[x_key][1])}; "
                    f"{labels[y_key][0]}: {number_text(sw.best_y, labels[y_key][1])}")
         if st.button("Search the best launch", key="flight_search",
                      help="Refines the grid's best point within the two ranges (scipy Nelder-Mead)."):
             with st.spinner("Searching…"):
                 st.session_state["flight:best"] = (_best(values, (x_key, y_key), ((x0, x1), (y0, y1)),
-                                                         output, maximise), (x_key, y_key, output))
+                                                         output, maximise),
+                                                   (x_key, y_key, output, maximise, x0, x1, y0, y1))
         best = st.session_state.get("flight:best")
-        if best and best[1] == (x_key, y_key, output):
+        opt = None
+        if best and best[1] == (x_key, y_key, output, maximise, x0, x1, y0, y1):
             opt = best[0]
-            st.metric(f"Searched {out_label.lower()}", number_text(opt.best_value, out_kind))
+            st.metric(f"Searched {out_label.lower()}", number_text(opt.best_value, out_kind, 4))
             st.caption("; ".join(f"{labels[k][0]}: {number_text(v, labels[k][1])}" for k, v in zip(opt.keys, opt.values))
-                       + f" ({opt.evaluations} flights)")
+                       + f" ({opt.evaluations} flights). Other inputs as in the sidebar.")
+    with c1:
+        show_figure(fb.sweep_heatmap(sw, labels, out_label, out_kind, system,
+                                     searched=None if opt is None else opt.values), key="fig_sweep")
     show_warnings([w for w in sw.warnings if w.severity == "invalid"])
 
 
@@ -319,6 +328,9 @@ def _fit_tab(values):
                    f"constant CD {d['cd']} and CL {d['cl']} plus {100 * d['noise_m']:.0f} cm noise; the fit should find them.")
     else:
         up = st.file_uploader("Tracked positions (CSV)", type=["csv", "txt"], key="flight_tracks_file")
+        st.download_button("Example file in this format (the invented demo tracks)",
+                           _demo_tracks().to_csv(index=False), "tracks_example_invented.csv", "text/csv",
+                           key="flight_tracks_template")
         if up is None:
             st.info("Upload a CSV file in the format above, or choose the invented demo tracks.")
             return
@@ -348,7 +360,8 @@ def _fit_tab(values):
     c[1].metric(fit.names[1], f"{b:.4f} ± {sb:.4f}")
     c[2].metric("RMS miss", number_text(fit.rms_m, "length"))
     st.caption("± one standard deviation from the Jacobian at the solution (assumes independent, equal "
-               f"noise on every coordinate); {fit.nfev} model runs, {fit.dof} degrees of freedom. {fit.message}")
+               f"noise on every coordinate); {fit.nfev} evaluations of the residuals, {fit.dof} degrees of freedom. "
+               f"{fit.message}")
     c1, c2 = st.columns(2)
     system = unit_system()
     with c1:
@@ -361,7 +374,8 @@ def _fit_tab(values):
 
 def _balls_tab():
     st.markdown("Ball sizes and masses from the governing bodies' rules; the middle of each allowed range is used.")
-    st.dataframe(pd.DataFrame(ball_table()).round(2), hide_index=True, width="stretch")
+    balls = table_in_units(pd.DataFrame(ball_table()), {"diameter_m": "small_length", "mass_kg": "small_mass"})
+    st.dataframe(balls.round(3), hide_index=True, width="stretch")
     rows = [{"model": m.title, "from memory": "yes" if m.from_memory else "no",
              "S range": f"{m.s_range[0]:g} to {m.s_range[1]:g}", "Re range": f"{m.re_range[0]:.3g} to {m.re_range[1]:.3g}",
              "drag crisis Re": "" if m.crisis_re is None else f"{m.crisis_re[0]:.3g} to {m.crisis_re[1]:.3g}",
@@ -387,15 +401,12 @@ except InputError as exc:
     st.error(str(exc))
     st.stop()
 
-tabs = st.tabs(["Flight", "Launch sweep", "Launch spread", "Fit to tracked flights", "Balls and models"])
-with tabs[0]:
-    _flight_tab(result, values)
-with tabs[1]:
-    _sweep_tab(main_values)
-with tabs[2]:
-    _spread_tab(values)
-with tabs[3]:
-    _fit_tab(main_values)
-with tabs[4]:
-    _balls_tab()
+# Tabs track which one is open (so a button inside a tab keeps it open) and only the open one runs.
+TABS = ("Flight", "Launch sweep", "Launch spread", "Fit to tracked flights", "Balls and models")
+tabs = st.tabs(TABS, key="flight_tab", on_change="rerun")
+for tab, draw in zip(tabs, (lambda: _flight_tab(result, values), lambda: _sweep_tab(main_values),
+                            lambda: _spread_tab(values), lambda: _fit_tab(main_values), _balls_tab)):
+    if tab.open is not False:
+        with tab:
+            draw()
 show_sources_and_cautions(study)
