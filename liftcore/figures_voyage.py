@@ -64,7 +64,7 @@ def wind_rose(t: vy.Tally, system: str = "SI") -> go.Figure:
 def gain_heat_map(t: vy.Tally, system: str = "SI") -> go.Figure:
     """Each cell: its contribution to the mean net power gain (gain x share of time)."""
     pu = _u("power", system)
-    fig = base_figure(f"Where the gain comes from: net power gain × share of time [{pu}]",
+    fig = base_figure("Where the gain comes from",
                       "True wind angle off the bow, either side [°]",
                       f"True wind speed [{_u('wind_speed', system)}]", height=520)
     used = np.nonzero(t.heat_weight.sum(axis=0))[0]
@@ -82,7 +82,7 @@ def gain_heat_map(t: vy.Tally, system: str = "SI") -> go.Figure:
     scale = dict(colorscale=DIVERGING, zmid=0.0) if negative else dict(colorscale=SEQUENTIAL)
     fig.add_trace(go.Heatmap(
         x=vy.HEAT_ANGLES_DEG, y=speeds, z=z, customdata=np.dstack([share, gain.T]),
-        colorbar=dict(title=pu), **scale,
+        colorbar=dict(title=f"gain × share<br>of time [{pu}]"), **scale,
         hovertemplate=("angle %{x:.0f}°, wind %{y:.1f} " + _u("wind_speed", system)
                        + "<br>share of time %{customdata[0]:.2f} %<br>net gain there %{customdata[1]:.0f} "
                        + pu + "<br>contribution %{z:.2f} " + pu + "<extra></extra>")))
@@ -100,7 +100,8 @@ def operating_time(summary: vy.VoyageSummary) -> go.Figure:
         fig.add_trace(go.Bar(x=[100.0 * share], y=["rotors"], orientation="h", name=name,
                              marker_color=col, text=[f"{100 * share:.0f} %"], textposition="inside",
                              hovertemplate=name + ": %{x:.1f} %<extra></extra>"))
-    fig.update_layout(barmode="stack", legend=dict(orientation="h", y=-0.45), margin=dict(t=60, b=90))
+    fig.update_layout(barmode="stack", legend=dict(orientation="h", y=-0.45, traceorder="normal"),
+                      margin=dict(t=60, b=90))
     fig.update_xaxes(range=[0, 100])
     fig.update_yaxes(showticklabels=False)
     return fig

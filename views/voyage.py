@@ -31,6 +31,9 @@ FORMATS = {
                "wind comes from, both clockwise from north; leg (optional) names the leg for the bars."),
 }
 
+UPLOAD_WORDS = {"table": "joint table of wind angle × speed", "weibull": "Weibull per direction sector",
+                "series": "hourly series along a route"}
+
 st.title("Voyage savings")
 st.caption("Expected thrust, net power gain, energy, fuel, CO₂ and money saved per year by rotor "
            "sails over the wind of a trade, with the best spin in every wind condition, and a "
@@ -60,7 +63,7 @@ system = unit_system()
 cols, info = FORMATS[kind]
 up_col, fmt_col = st.columns([1, 1])
 with up_col:
-    uploaded = st.file_uploader(f"Your wind file: {study.WIND_KIND_LABELS[study.WIND_KINDS.index(kind)].lower()} (CSV)",
+    uploaded = st.file_uploader(f"Your wind file ({UPLOAD_WORDS[kind]}, CSV)",
                                 type=["csv", "txt"], key=UPLOAD_KEY,
                                 help="Without a file the page uses the invented demo of this kind.")
 with fmt_col:

@@ -6,50 +6,49 @@
 Exactly one wind input: ``--wind-table`` (true_wind_angle_deg, true_wind_speed_m_s, probability),
 ``--weibull`` (sector_centre_deg, frequency, scale_m_s, shape; with ``--course-deg``) or
 ``--wind-series`` (time, ship_speed_kn, ship_heading_deg, true_wind_speed_m_s,
-true_wind_direction_deg[, leg]; streamed in blocks, any length). Every other rotor input of the
-rotor page is available as ``--<input-key>`` in core units (``--max-rpm``, ``--end-plate-ratio``).
+true_wind_direction_deg[, leg]; streamed in blocks, any length). The rotor, wind-profile,
+coefficient, limit and air options are those of ``liftcore rotor`` (same names and units).
 """
 
 from __future__ import annotations
 
-import argparse
 import math
 
-from liftcore import rotor
-from liftcore.air import air_inputs
+from pathlib import Path
+
+from liftcore import coefficients as coef
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import require_one, text_table
+from liftcore.cli.common import add_air_options, air_from_args, require_one, text_table
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError, check_number
 from liftcore.studies import format_number
 from liftcore.studies import voyage as study
 from liftcore.voyage import DASK_AUTO_ROWS, FUELS
 
-#: Inputs given by the options named in the command's usage, not by the generic ones.
-_NAMED = {"diameter_m", "height_m", "rotor_count"}
-
-
-def _option(key: str) -> str:
-    return "--" + key.replace("_", "-")
-
-
-def _add_field_options(group, fields) -> None:
-    """One option per input field, named after its key (core units), default from the study."""
-    for f in fields:
-        if f.key in _NAMED:
-            continue
-        if f.kind == "bool":
-            group.add_argument(_option(f.key), dest=f"in_{f.key}", action=argparse.BooleanOptionalAction,
-                               default=None, help=f"{f.label} (default {'on' if f.default else 'off'})")
-        elif f.kind == "choice":
-            group.add_argument(_option(f.key), dest=f"in_{f.key}", choices=f.choices, default=None,
-                               help=f"{f.label} (default {f.default})")
-        elif f.kind == "text":
-            group.add_argument(_option(f.key), dest=f"in_{f.key}", default=None, metavar="TEXT",
-                               help=f.label)
-        else:
-            group.add_argument(_option(f.key), dest=f"in_{f.key}", type=float, default=None,
-                               metavar="X", help=f"{f.label} (default {f.default:g})")
+#: Rotor options shared with ``liftcore rotor`` (same names and units):
+#: option dest -> (study input key, factor from the option's unit to the core unit, or None).
+ROTOR_OPTIONS = {
+    "base_height_m": ("base_height_m", 1.0, "rotor base above the waterline [m]"),
+    "end_plate_ratio": ("end_plate_ratio", 1.0, "end-plate diameter / rotor diameter, 1 = none"),
+    "rotor_spacing_m": ("rotor_spacing_m", 1.0, "fore-and-aft spacing between rotors [m]"),
+    "first_rotor_x_m": ("first_rotor_x_m", 1.0, "foremost rotor ahead of midships [m]"),
+    "interaction_factor": ("interaction_factor", 1.0, "multiplier on the forces of several rotors, assumed"),
+    "heel_reference_depth_m": ("heel_reference_depth_m", 1.0, "heeling moment about a point this far below the waterline [m]"),
+    "reference_height_m": ("reference_height_m", 1.0, "height of the given true wind [m]"),
+    "power_law_exponent": ("power_law_exponent", 1.0, "power-law exponent"),
+    "charnock_constant": ("charnock_constant", 1.0, "Charnock constant"),
+    "strips": ("strips", None, "strips along the rotor height"),
+    "max_rpm": ("max_rpm", 1.0, "maximum rotor speed [rpm]"),
+    "max_motor_power_kw": ("max_motor_power_w", 1000.0, "maximum motor power per rotor [kW]"),
+    "max_heeling_moment_knm": ("max_heeling_moment_nm", 1000.0, "maximum heeling moment of all rotors [kN m]"),
+    "max_spin_ratio": ("max_spin_ratio", 1.0, "highest spin ratio the best spin may use"),
+    "propulsive_efficiency": ("propulsive_efficiency", 1.0, "thrust power / engine power"),
+    "electrical_efficiency": ("electrical_efficiency", 1.0, "rotor shaft power / electric power drawn"),
+    "set_aspect_ratio": ("user_aspect_ratio", 1.0, "aspect ratio of the rotor a CSV set was measured on (0 = two-dimensional)"),
+    "set_end_plate_ratio": ("user_end_plate_ratio", 1.0, "end-plate ratio of the rotor a CSV set was measured on"),
+}
+#: Largest coefficient CSV file read from the command line. [bytes]
+MAX_CSV_BYTES = 1_000_000
 
 
 def add_parser(sub):
@@ -99,9 +98,20 @@ def add_parser(sub):
     c.add_argument("--sweep", action="store_true",
                    help="also compare rotor sizes and counts (design_options in --json)")
     c.add_argument("--sweep-max-rotors", type=int, help="most rotors in the comparison (default 6)")
-    r = p.add_argument_group("other rotor, wind-profile, limit and air inputs (core units; "
-                             "defaults as on the rotor page)")
-    _add_field_options(r, tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs()))
+    d = {f.key: f.default for f in study.INPUTS.fields}
+    r = p.add_argument_group("rotor, wind profile, coefficients, limits (as in the rotor command)")
+    for dest, (key, factor, text) in ROTOR_OPTIONS.items():
+        shown = d[key] if factor is None else d[key] / factor
+        r.add_argument("--" + dest.replace("_", "-"), type=int if factor is None else float,
+                       help=f"{text} (default {shown:g})")
+    r.add_argument("--wind-profile", choices=("uniform", "power", "log"),
+                   help=f"wind profile over the sea (default {d['wind_profile']})")
+    r.add_argument("--coefficients", metavar="NAME|FILE.csv",
+                   help=f"coefficient set: one of {', '.join(coef.builtin_names())}, or a CSV file "
+                        f"with columns SR, CL, CD[, CP] (default {coef.DEFAULT_SET})")
+    r.add_argument("--no-aspect-ratio-correction", action="store_true",
+                   help="use the set's drag as measured, without moving its induced drag to this rotor")
+    add_air_options(p, density=False)
     add_json_flag(p)
     return p
 
@@ -113,10 +123,17 @@ def values_from_args(args) -> tuple[dict, str]:
                   ("weibull", args.weibull) if args.weibull else ("series", args.wind_series))
     v = {"diameter_m": args.diameter_m, "height_m": args.height_m, "rotor_count": args.rotors,
          "fuel": args.fuel, "wind_kind": kind, "sweep": bool(args.sweep)}
-    for f in tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs()):
-        x = getattr(args, f"in_{f.key}", None)
+    for dest, (key, factor, _) in ROTOR_OPTIONS.items():
+        x = getattr(args, dest)
         if x is not None:
-            v[f.key] = x
+            v[key] = x if factor is None else x * factor
+    if args.wind_profile:
+        v["wind_profile"] = args.wind_profile
+    if args.no_aspect_ratio_correction:
+        v["correct_aspect_ratio"] = False
+    if args.coefficients:
+        v.update(_coefficients(args.coefficients))
+    v.update(_air(args))
     if args.ship_speed_kn is not None:
         v["ship_speed_m_s"] = check_number("ship-speed-kn", args.ship_speed_kn, "kn", low=0.5,
                                            high=30.0) * KNOT_M_S
@@ -150,9 +167,62 @@ def values_from_args(args) -> tuple[dict, str]:
     return v, path
 
 
+def _coefficients(name: str) -> dict:
+    if name in coef.builtin_names():
+        return {"coefficient_set": name}
+    path = Path(name)
+    if path.suffix.lower() != ".csv" and not path.exists():
+        raise InputError("--coefficients", f"--coefficients must be one of "
+                                           f"{', '.join(coef.builtin_names())} or a .csv file (got {name!r})")
+    if not path.is_file():
+        raise InputError("--coefficients", f"--coefficients file {path.name}: file not found")
+    size = path.stat().st_size
+    if size > MAX_CSV_BYTES:
+        raise InputError("--coefficients", f"--coefficients file {path.name} is {size} bytes; at most "
+                                           f"{MAX_CSV_BYTES} are read")
+    table = path.read_text(encoding="utf-8", errors="replace")
+    coef.user_coefficient_set(table, source=f"--coefficients file {path.name}")  # check, naming the file
+    return {"coefficient_set": "user", "user_coefficients_csv": table}
+
+
+def _air(args) -> dict:
+    """The study's air inputs from the shared air options (ISA at an altitude, or measured)."""
+    air = air_from_args(args)  # checks the ranges, naming the options
+    out = {}
+    if args.altitude_m is not None:
+        out["altitude_m"] = args.altitude_m
+    if args.humidity_pct:
+        out["relative_humidity_pct"] = args.humidity_pct
+    if args.temperature_c is not None or args.pressure_pa is not None:
+        out.update(air_mode="measured", temperature_k=air.temperature_k, pressure_pa=air.pressure_pa)
+    return out
+
+
+def _validate(values: dict) -> dict:
+    """Study inputs checked one by one; a bad one names its option (marine units, as in rotor)."""
+    option_of = {key: "--" + dest.replace("_", "-") for dest, (key, _, _) in ROTOR_OPTIONS.items()}
+    option_of.update(diameter_m="--diameter-m", height_m="--height-m", rotor_count="--rotors",
+                     sfoc_main_g_kwh="--sfoc-g-kwh", sfoc_generator_g_kwh="--generator-sfoc-g-kwh",
+                     fuel_price_per_t="--fuel-price", carbon_price_per_t_co2="--carbon-price",
+                     installed_cost="--installed-cost", upkeep_per_year="--upkeep",
+                     discount_rate_pct="--discount-rate-pct", sweep_max_rotors="--sweep-max-rotors",
+                     speed_profile_kn="--speed-profile", user_coefficients_csv="--coefficients")
+    out = {}
+    for f in study.INPUTS.fields:
+        if f.key not in values:
+            out[f.key] = f.default
+            continue
+        try:
+            out[f.key] = f.validate(values[f.key], "marine")
+        except InputError as exc:
+            opt = option_of.get(f.key)
+            raise InputError(opt or f.key, f"{opt}: {exc}" if opt else str(exc)) from None
+    return out
+
+
 def execute(args, progress):
     values, path = values_from_args(args)
-    clean = study.INPUTS.validate(values)
+    clean = _validate(values)
     result = study.run(clean, progress=progress, extra=path)
     data = dict(result.json)
     if result.detail.sweep is not None:

@@ -54,7 +54,7 @@ VOYAGE_FIELDS = (
            section=_W, help="What your wind file describes. Without an upload the page uses the "
                             "invented demo file of this kind."),
     number("course_deg", "Course on the trade (Weibull input)", "angle", 235.0, 0.0, 360.0,
-           section=_W, help="Where the ship heads, clockwise from north; with the wind directions "
+           section=_W, step=5.0, help="Where the ship heads, clockwise from north; with the wind directions "
                             "of the sectors it gives the wind angle off the bow."),
     flag("round_trip", "Half the time on the reciprocal course (Weibull input)", True, section=_W,
          help="A shuttle trade: the ship sails the course and back, equal time each way."),
@@ -62,7 +62,8 @@ VOYAGE_FIELDS = (
          help="Hours under way in the series divided by the years it spans; off: use the "
               "hours entered below."),
     number("ship_speed_m_s", "Service speed", "ship_speed", 12.0 * KNOT_M_S, 0.5 * KNOT_M_S,
-           30.0 * KNOT_M_S, section=_S, help="Speed through the water when no speed profile is "
+           30.0 * KNOT_M_S, section=_S, step=0.1,
+           help="Speed through the water when no speed profile is "
                                              "given (tables and Weibull input)."),
     text("speed_profile_kn", "Speed profile (knots:share, e.g. 12:0.6, 10:0.4)", "", section=_S,
          help="Several speeds with their shares of sea time (summing to 1), in knots; empty = the "
@@ -95,7 +96,7 @@ VOYAGE_FIELDS = (
     number("discount_rate_pct", "Discount rate", "percent", 8.0, 0.0, 50.0, section=_M, step=0.5,
            help="For the discounted payback; 0 gives the simple payback."),
     number("reference_speed_m_s", "Reference speed V_ref (0 = service speed)", "ship_speed", 0.0,
-           0.0, 30.0 * KNOT_M_S, section=_I, advanced=True,
+           0.0, 30.0 * KNOT_M_S, section=_I, advanced=True, step=0.1,
            help="Ship speed of the IMO term (MEPC.1/Circ.896); 0 takes the service speed."),
     number("imo_total_efficiency", "Total efficiency of the main drive η_T", "ratio",
            vy.IMO_DEFAULT_TOTAL_EFFICIENCY, 0.1, 1.0, section=_I, advanced=True, step=0.01,
@@ -110,7 +111,10 @@ VOYAGE_FIELDS = (
               "address such as tcp://10.0.0.5:8786 whose workers can read the file."),
 )
 
-INPUTS = InputSpec(KIND, tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs("Air")) + VOYAGE_FIELDS)
+# The trade first (what this page is about), then the rotor inputs shared with the rotor page.
+_FIRST = tuple(f for f in VOYAGE_FIELDS if f.section in (_W, _S, _M))
+_LAST = tuple(f for f in VOYAGE_FIELDS if f.section not in (_W, _S, _M))
+INPUTS = InputSpec(KIND, _FIRST + tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs("Air")) + _LAST)
 
 SOURCES = (
     "IMO MEPC.308(73) (2018) and MEPC.364(79) (2022), Guidelines on the method of calculation of "
@@ -246,12 +250,14 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                            values["round_trip"])
         if step(0, main_end):
             step(0, main_end)(0.1, "Best spin in every wind condition")
-        tally = vy.tally_joint(operate, joint, speeds, shares)
+        tally = vy.tally_joint(operate, joint, speeds, shares, with_grid=sweep_on)
         c = vy.conditions_from_joint(joint, speeds, shares)
         imo_conditions = {k: c[k] for k in ("ship_speed_m_s", "true_wind_speed_m_s",
                                             "true_wind_angle_deg", "weight")}
         n_conditions = joint.size * speeds.size
     summary = vy.summarise(tally, ship, hours)
+    if kind == "series":
+        summary = replace(summary, warnings=summary.warnings + vy.series_warnings(tally))
     if progress:
         progress(main_end, "IMO wind-propulsion term")
 
@@ -275,14 +281,21 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         counts = range(1, values["sweep_max_rotors"] + 1)
         options = vy.option_costs(setup.diameter_m, setup.height_m, setup.rotor_count,
                                   values["installed_cost"], SWEEP_SIZE_FACTORS, counts)
-        if kind == "series":
-            sweep_conditions = vy.grid_conditions(tally)
-            sweep_note = ("The series is binned for the comparison (ship speed 0.5 m/s × angle 10° "
-                          "× wind 1 m/s, each bin at its mean condition).")
-        else:
-            sweep_conditions = imo_conditions
+        sweep_conditions = vy.grid_conditions(tally)
+        if sweep_conditions["weight"].size < n_conditions:
+            sweep_note = ("For speed the options are compared on the wind conditions binned (ship "
+                          "speed 0.5 m/s × angle 10° × wind 1 m/s, each bin at its mean condition).")
         sweep_df = vy.sweep_design_options(lambda o: operate_for(sweep_setup(setup, o)), options,
                                            sweep_conditions, ship, hours, progress=step(main_end + 0.05, 1.0))
+        at = sweep_df[np.isclose(sweep_df["diameter_m"], setup.diameter_m)
+                      & (sweep_df["rotors"] == setup.rotor_count)]
+        if len(at) and sweep_note:
+            binned = float(at["annual_fuel_saved_kg"].iloc[0])
+            exact = summary.annual_fuel_saved_kg
+            if exact != 0:
+                sweep_note += (f" At the entered design the binned conditions give "
+                               f"{100 * (binned - exact) / abs(exact):+.2f} % fuel saved against the "
+                               "exact headline.")
         sweep_note += (" Sizes keep the entered proportions; motor power scales with D × H and the "
                        "rpm limit with 1/D; cost per rotor scales with D × H from the entered "
                        "installation (an assumption for comparing options, not a quote).")

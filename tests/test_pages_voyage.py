@@ -1,0 +1,80 @@
+"""The Voyage savings page: renders, and shows what a direct core call computes."""
+
+from pathlib import Path
+
+import pytest
+from streamlit.testing.v1 import AppTest
+
+from liftcore.studies import run_study
+
+PAGE = str(Path(__file__).resolve().parents[1] / "views" / "voyage.py")
+KNOT = 1852 / 3600  # m/s per knot (international nautical mile)
+
+
+def page(**state) -> AppTest:
+    at = AppTest.from_file(PAGE, default_timeout=180)
+    for k, v in state.items():
+        at.session_state[k] = v
+    return at
+
+
+def shown(at) -> dict:
+    return {m.label: m.value for m in at.metric}
+
+
+def expected(values: dict, system: str = "SI") -> dict:
+    r = run_study("voyage", values)
+    return {h.label: h.text(system) for h in r.headlines}
+
+
+def test_page_renders_the_demo_with_every_chart():
+    at = page().run()
+    assert not at.exception
+    assert at.title[0].value == "Voyage savings"
+    assert shown(at) == expected({})
+    # rose, heat map, operating time, fuel / payback options
+    assert len(at.get("plotly_chart")) == 5
+    assert any("invented demo" in w.value for w in at.warning)
+
+
+def test_wind_kind_and_rotor_count_by_widget_key():
+    at = page(**{"voyage:sweep": False}).run()
+    at.selectbox(key="w:voyage:wind_kind:SI").set_value("weibull").run()
+    at.number_input(key="w:voyage:rotor_count:SI").set_value(3).run()
+    at.number_input(key="w:voyage:course_deg:SI").set_value(100.0).run()
+    assert not at.exception
+    assert shown(at) == expected({"wind_kind": "weibull", "rotor_count": 3, "course_deg": 100.0,
+                                  "sweep": False})
+
+
+def test_series_shows_monthly_and_leg_bars():
+    at = page(**{"voyage:sweep": False}).run()
+    at.selectbox(key="w:voyage:wind_kind:SI").set_value("series").run()
+    assert not at.exception
+    # the series' own inputs appear in the same run; the table's service speed goes
+    assert at.toggle(key="w:voyage:hours_from_series:SI").value is True
+    assert not [w for w in at.number_input if w.key == "w:voyage:ship_speed_m_s:SI"]
+    assert shown(at) == expected({"wind_kind": "series", "sweep": False})
+    # rose, heat map, operating time, months, legs
+    assert len(at.get("plotly_chart")) == 5
+
+
+def test_marine_units_show_the_same_quantity_converted():
+    at = page(**{"unit_system": "marine", "voyage:sweep": False}).run()
+    assert at.number_input(key="w:voyage:ship_speed_m_s:marine").value == pytest.approx(12.0)
+    at.number_input(key="w:voyage:ship_speed_m_s:marine").set_value(10.0).run()
+    assert not at.exception
+    assert shown(at) == expected({"ship_speed_m_s": 10.0 * KNOT, "sweep": False}, "marine")
+
+
+def test_bad_speed_profile_shows_one_error_and_keeps_the_input():
+    at = page(**{"voyage:sweep": False}).run()
+    at.text_input(key="w:voyage:speed_profile_kn:SI").input("12:0.5, 10:0.4").run()
+    assert not at.exception
+    assert [e.value for e in at.error] == [
+        "speed profile shares sum to 0.9; they must sum to 1 (e.g. 12:0.6, 10:0.4)"]
+    assert at.text_input(key="w:voyage:speed_profile_kn:SI").value == "12:0.5, 10:0.4"
+    at.text_input(key="w:voyage:speed_profile_kn:SI").input("12:0.5, 10:0.5").run()
+    assert not at.error
+    assert shown(at) == expected({"speed_profile_kn": "12:0.5, 10:0.5", "sweep": False})
+
