@@ -476,3 +476,21 @@ def test_compare_page_loads_the_demo_comparison_and_draws_the_key_chart():
     for w in first.warnings:
         assert sum(w.message in x for x in listed) == 1
     assert len(at.get("plotly_chart")) >= 1
+
+
+def test_rotor_page_takes_a_users_coefficient_table_from_a_scenario():
+    """Text inputs drawn under a page's own widget key are re-seeded by a load too."""
+    if "rotor" not in STUDY_MODULES or not importlib.util.find_spec("liftcore.studies.rotor"):
+        pytest.fail("the rotor study is missing")
+    tables = ("SR,CL,CD,CP\n0,0,0.6,0\n1,2.0,0.4,0.03\n2,5.5,1.3,0.25\n3,8.5,2.4,0.75\n",
+              "SR,CL,CD,CP\n0,0,0.5,0\n1,1.8,0.4,0.03\n2,5.0,1.2,0.2\n3,8.0,2.2,0.7\n")
+    at = page_app("views/rotor.py")
+    at.run()
+    for n, table in enumerate(tables):
+        text = sc.scenario_to_toml(sc.Scenario("rotor", {**study("rotor").INPUTS.defaults(),
+                                                         "coefficient_set": "user",
+                                                         "user_coefficients_csv": table}))
+        at.file_uploader(key=f"_lc:upload{n}:rotor").set_value((f"t{n}.toml", text.encode(), "application/toml")).run()
+        assert not at.exception, at.exception
+        assert at.session_state["rotor:user_coefficients_csv"] == table
+        assert [t.value for t in at.text_area if t.value.startswith("SR,")] == [table]

@@ -78,8 +78,10 @@ def set_values(spec: InputSpec, values: dict) -> None:
     for f in spec.fields:
         if f.key in values:
             st.session_state[state_key(spec.kind, f.key)] = values[f.key]
+        prefix = widget_key(spec.kind, f.key, "")  # every widget of this input, in any system
+        for k in [k for k in st.session_state if isinstance(k, str) and k.startswith(prefix)]:
+            del st.session_state[k]
         for system in units.UNIT_SYSTEMS:
-            st.session_state.pop(widget_key(spec.kind, f.key, system), None)
             st.session_state.pop(_seed_key(widget_key(spec.kind, f.key, system)), None)
 
 

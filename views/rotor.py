@@ -125,6 +125,7 @@ st.caption("Forces, spin power and net gain of rotor sails in one wind condition
 _sync_controls()
 values = common.render_inputs(SPEC, skip=COEFFICIENT_KEYS, show_if=SHOW_IF)
 values = _coefficient_inputs(values)
+common.page_tools(study)
 system = common.unit_system()
 
 try:
