@@ -494,3 +494,15 @@ def test_rotor_page_takes_a_users_coefficient_table_from_a_scenario():
         assert not at.exception, at.exception
         assert at.session_state["rotor:user_coefficients_csv"] == table
         assert [t.value for t in at.text_area if t.value.startswith("SR,")] == [table]
+
+
+def test_an_option_opens_on_its_page():
+    doc = sc.load_document(ROOT / "scenarios" / "compare_demo_invented.toml")
+    at = compare_app()
+    at.run()
+    at.button(key="_lc:cmp_demo").click().run()
+    at.button(key="_lc:open:1").click().run()
+    assert not at.exception, at.exception
+    assert at.title[0].value == study(doc.kind).TITLE
+    assert state_values(at, doc.kind, study(doc.kind).INPUTS) == doc.options[1].inputs
+    assert f"Opened option “{doc.options[1].name}”" in messages(at)
