@@ -121,7 +121,8 @@ def test_unit_switch_keeps_values_exactly_and_converts_headlines():
         assert metrics(at) == shown("demo", values, system)
     at.segmented_control(key="unit_system").set_value("imperial").run()
     # 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959)
-    assert at.number_input(key="w:demo:diameter_m:imperial").value == pytest.approx(3.0 / 0.3048, rel=1e-6)
+    # shown to 5 significant digits (the value used stays exact)
+    assert at.number_input(key="w:demo:diameter_m:imperial").value == pytest.approx(3.0 / 0.3048, rel=1e-5)
     at.number_input(key="w:demo:diameter_m:imperial").set_value(10.0).run()
     assert at.session_state["demo:diameter_m"] == pytest.approx(3.048, rel=1e-12)
     # degF = degC * 9/5 + 32: 20 degC is 68 degF

@@ -117,7 +117,7 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         lo, hi = _display_bounds(f, system)
         if wkey not in st.session_state:
             shown = units.to_display(core_value, f.quantity, system) if f.kind == "number" else core_value
-            shown = _clamp(float(f"{shown:.6g}"), lo, hi)
+            shown = _clamp(float(f"{shown:.5g}"), lo, hi)  # tidy display; the core value stays exact
             shown = int(shown) if f.kind == "int" else float(shown)
             st.session_state[wkey] = shown
             st.session_state[_seed_key(wkey)] = shown
@@ -343,12 +343,8 @@ def request_load(kind: str, values: dict, *, title: str | None = None, note: str
     """Ask the page of ``kind`` to take these inputs before it draws its widgets (next run)."""
     st.session_state[_k("pending", kind)] = {"values": dict(values), "title": title, "note": note,
                                              "message": message}
-    if unit_system in units.UNIT_SYSTEMS and unit_system != unit_system_now():
+    if unit_system in units.UNIT_SYSTEMS:
         st.session_state[PENDING_UNITS] = unit_system
-
-
-def unit_system_now() -> str:
-    return unit_system()
 
 
 def _prepare(spec: InputSpec) -> None:
