@@ -80,7 +80,8 @@ def dense_scan(setup: rotor.RotorSetup, vs, vt, g) -> np.ndarray:
     return np.where(ok, res["net"], -np.inf).max(axis=0)
 
 
-def main(argv=None) -> dict:
+def main(argv=()) -> dict:
+    """Run the benchmark; ``argv`` are this module's own options (none when run by the suite)."""
     p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     p.add_argument("--conditions", type=int, default=10_000)
     args = p.parse_args(argv)
@@ -134,4 +135,6 @@ def main(argv=None) -> dict:
 
 
 if __name__ == "__main__":
-    main()
+    import sys
+
+    main(sys.argv[1:])

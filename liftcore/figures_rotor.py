@@ -71,19 +71,26 @@ def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
             hi = np.where(np.isfinite(arr), arr, -np.inf).max(axis=0)
             band(fig, x[keep], lo[keep], hi[keep], "Spread between data sets", SPREAD_COLOUR, 0.25)
     y_cap = 0.0
+    friction_drawn = False
     for i, c in enumerate(detail.comparisons):
         cs = c.coefficients
         cv = c.curves
         y = getattr(cv, attr)
         chosen = cs is detail.setup.coefficients
         name = cs.label
-        if which == "power" and cv.power_from_friction_model:
-            name += " — skin-friction model at this wind"
-        dash = "dash" if cs.kind == "theory" else ("dot" if which == "power" and cv.power_from_friction_model else "solid")
+        dash = "dash" if cs.kind == "theory" else "solid"
         col = THEORY_COLOUR if cs.kind == "theory" else colour(i)
+        if which == "power" and cv.power_from_friction_model:
+            # every set without a power coefficient shares the one friction model of this rotor
+            if friction_drawn:
+                continue
+            friction_drawn = True
+            name = "Skin-friction model of this rotor at this wind (sets without power data)"
+            dash, col = "dot", "#444444"
+            chosen = not detail.setup.coefficients.has_power
         fig.add_trace(go.Scatter(x=cv.spin_ratio, y=y, mode="lines", name=name,
                                  line=dict(color=col, width=LINE_WIDTH * (1.5 if chosen else 1.0), dash=dash),
-                                 hovertemplate="SR %{x:.2f}<br>" + attr.split("_")[0] + " %{y:.3f}<extra>" + cs.name + "</extra>"))
+                                 hovertemplate="SR %{x:.2f}<br>" + attr.split("_")[0] + " %{y:.3f}<extra></extra>"))
         if _is_real(cs):
             y_cap = max(y_cap, float(np.nanmax(y)))
     op = detail.operation
@@ -93,6 +100,8 @@ def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
     y_op = float(getattr(op, attr))
     if y_cap > 0:
         fig.update_yaxes(range=[min(0.0, y_op), max(y_cap, y_op) * 1.15])
+    if top > 0:  # the theory line runs on beyond the data; show the range the data cover
+        fig.update_xaxes(range=[0.0, max(top, float(op.spin_ratio)) * 1.04])
     fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.18, x=0.0))
     fig.update_layout(margin=dict(b=150))
     return fig
@@ -102,7 +111,7 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
     """Thrust and net power gain against the true wind angle at the current wind and ship speed,
     with the spread between the sets with data shaded and the current angle marked."""
     fig = _styled_subplots("Thrust and net power gain around the compass (this wind and ship speed)",
-                           height=560, rows=1, cols=2, specs=[[{"type": "polar"}, {"type": "polar"}]],
+                           height=620, rows=1, cols=2, specs=[[{"type": "polar"}, {"type": "polar"}]],
                            subplot_titles=(f"Thrust [{_label('large_force', system)}]",
                                            f"Net power gain [{_label('power', system)}]"))
     theta = detail.sweep_angles_deg
@@ -138,8 +147,11 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
                              tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
                              ticktext=["0° bow", "45°", "90° stbd", "135°", "180° stern", "-135°",
                                        "-90° port", "-45°"]),
-            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=90, tickangle=90))})
-    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.05, x=0.0), margin=dict(b=110, t=110))
+            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=45, tickangle=45,
+                            tickfont=dict(size=FONT_SIZE - 3)))})
+    for ann in fig.layout.annotations:  # lift the panel titles clear of the "0° bow" label
+        ann.update(y=ann.y + 0.1, yanchor="bottom")
+    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.1, x=0.0), margin=dict(b=120, t=150))
     return fig
 
 
@@ -169,7 +181,8 @@ def span_figure(detail, system: str = "SI") -> go.Figure:
         fig.add_hrect(y0=base, y1=top, fillcolor="rgba(120,120,120,0.12)", line_width=0, row=1, col=col)
     zref = float(_disp(p.reference_height_m, h_kind, system))
     fig.add_hline(y=zref, line=dict(color="#444", width=1.5, dash="dot"), row=1, col=1,
-                  annotation_text="height of the given wind", annotation_position="bottom right")
+                  annotation_text="height of the given wind", annotation_position="bottom left",
+                  annotation_font_size=FONT_SIZE - 3)
     fig.add_annotation(x=0.0, y=top, xref="x domain", yref="y", text="rotor top", showarrow=False,
                        xanchor="left", yanchor="bottom", font=dict(size=FONT_SIZE - 3))
     fig.update_yaxes(title_text=f"Height above the waterline [{_label(h_kind, system)}]", row=1, col=1)

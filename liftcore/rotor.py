@@ -118,11 +118,6 @@ ROTOR_FIELDS: tuple[Field, ...] = (
            section="Rotor", step=0.05, help="Forces of all rotors are multiplied by this when "
                                             "there is more than one: 1 = rotors do not disturb "
                                             "each other. An assumption, not computed."),
-    number("heel_reference_depth_m", "Heel taken about a point below the waterline", "length",
-           0.0, 0.0, 30.0, section="Rotor", advanced=True,
-           help="Depth below the waterline of the point the heeling moment is taken about: 0 = "
-                "the waterline; about half the draught approximates the centre of lateral "
-                "resistance (common practice)."),
     choice("wind_profile", "Wind profile over the sea", wind.PROFILES, default="log",
            labels=wind.PROFILE_LABELS, section="Wind profile",
            help="How the true wind grows with height. The ship speed does not, so the apparent "
@@ -138,9 +133,6 @@ ROTOR_FIELDS: tuple[Field, ...] = (
            0.04, section="Wind profile", step=0.001,
            help="Sea roughness z0 = a u*²/g: 0.011 (Smith 1988; Fairall et al. 2003 below 10 m/s) "
                 "to 0.018 (Fairall et al. 2003 at 18 m/s)."),
-    integer("strips", "Strips along the rotor height", 10, 1, 200, section="Wind profile",
-            advanced=True, help="The rotor is cut into this many strips of equal height, each "
-                                "with its own apparent wind and spin ratio (midpoint rule)."),
     choice("coefficient_set", "Coefficient set", coef.builtin_names() + ("user",),
            default=coef.DEFAULT_SET,
            labels=tuple(s.label for s in coef.builtin_sets().values()) + ("Your own table (CSV)",),
@@ -176,6 +168,14 @@ ROTOR_FIELDS: tuple[Field, ...] = (
            1.0, section="Efficiencies", step=0.01,
            help="Rotor shaft power / electric power drawn from the ship's plant; about 0.85 to "
                 "0.95 for motor plus converter (common practice)."),
+    number("heel_reference_depth_m", "Heel taken about a point below the waterline", "length",
+           0.0, 0.0, 30.0, section="Model details", advanced=True,
+           help="Depth below the waterline of the point the heeling moment is taken about: 0 = "
+                "the waterline; about half the draught approximates the centre of lateral "
+                "resistance (common practice)."),
+    integer("strips", "Strips along the rotor height", 10, 1, 200, section="Model details",
+            advanced=True, help="The rotor is cut into this many strips of equal height, each "
+                                "with its own apparent wind and spin ratio (midpoint rule)."),
 )
 
 
@@ -853,9 +853,9 @@ def _warnings(setup: RotorSetup, w: _Wind, omega, res, sr_op, re, flags, mode, n
                                 "a lower estimate that ignores the cross-flow).", "spin_power_w"))
     if setup.rotor_count > 1:
         out.append(ModelWarning("rotor_interaction_assumed",
-                                f"{setup.rotor_count} rotors: forces are {setup.rotor_count} × "
-                                f"{setup.interaction_factor:g} (interaction factor, assumed, not "
-                                "computed) times one rotor's.", "thrust_n"))
+                                f"{setup.rotor_count} rotors with interaction factor "
+                                f"{setup.interaction_factor:g} (assumed, not computed): forces are "
+                                f"{setup.force_factor:g} times one rotor's.", "thrust_n"))
         offset = setup.rotor_spacing_m * np.abs(np.sin(w.beta_mid))
         m = (offset < setup.diameter_m) & (w.va_mid > CALM_M_S)
         if m.any():

@@ -8,6 +8,7 @@ from collections import OrderedDict
 import pandas as pd
 import streamlit as st
 
+from liftcore import coefficients as coef
 from liftcore import figures_rotor, units
 from liftcore.errors import InputError
 from liftcore.studies import format_number
@@ -54,6 +55,12 @@ def _sync_controls() -> None:
 def _coefficient_inputs(values: dict) -> dict:
     with st.sidebar.expander("Coefficient set", expanded=True):
         values["coefficient_set"] = common.input_widget(SPEC, SPEC.field("coefficient_set"))
+        if values["coefficient_set"] != "user":
+            chosen = coef.coefficient_set(values["coefficient_set"])
+            st.caption(f"{chosen.label}. Kind: {chosen.kind}; tested rotor H/D "
+                       f"{'2-D' if chosen.two_dimensional else f'{chosen.aspect_ratio:g}'}, end plates "
+                       f"{chosen.end_plate_ratio:g}; spin ratios {chosen.sr_range[0]:g} to "
+                       f"{chosen.sr_range[1]:g}.")
         if values["coefficient_set"] == "user":
             skey = common.state_key(KIND, "user_coefficients_csv")
             wkey = common.widget_key(KIND, "user_coefficients_csv", "all")
@@ -95,7 +102,7 @@ def _compare_table(result, system: str) -> pd.DataFrame:
     rows = []
     for _, r in result.tables["coefficient_sets"].iterrows():
         rows.append({
-            "Coefficient set": ("▶ " if r["chosen"] else "") + r["set"],
+            "Coefficient set": ("▶ " if r["chosen"] else "") + r["short"],
             "Kind": r["kind"],
             "Spin ratio": round(float(r["spin_ratio"]), 2),
             f"Rotor speed [{units.unit_label('rotation', system)}]": round(float(r["rpm"]), 1),
@@ -111,7 +118,7 @@ def _compare_table(result, system: str) -> pd.DataFrame:
 
 def _sets_provenance(result) -> pd.DataFrame:
     t = result.tables["coefficient_sets"]
-    return pd.DataFrame({"Coefficient set": t["set"], "Kind": t["kind"],
+    return pd.DataFrame({"Coefficient set": t["short"], "Kind": t["kind"],
                          "Tested aspect ratio H/D": [("2-D" if v == float("inf") else f"{v:g}") for v in t["aspect_ratio"]],
                          "End-plate ratio": t["end_plate_ratio"], "Spin ratios": t["sr_range"],
                          "Reynolds numbers": t["reynolds_range"], "Source": t["source"]})
@@ -123,8 +130,12 @@ st.caption("Forces, spin power and net gain of rotor sails in one wind condition
            "an invented demo ship; change any input in the sidebar. Estimates for early design.")
 
 _sync_controls()
-values = common.render_inputs(SPEC, skip=COEFFICIENT_KEYS, show_if=SHOW_IF)
+FIRST = {f.key for f in SPEC.fields if f.section in ("Ship and wind", "Spin", "Rotor", "Wind profile")}
+LATER = {f.key for f in SPEC.fields} - FIRST - set(COEFFICIENT_KEYS)
+values = common.render_inputs(SPEC, skip=tuple(LATER) + COEFFICIENT_KEYS, show_if=SHOW_IF)
 values = _coefficient_inputs(values)
+later = common.render_inputs(SPEC, skip=tuple(FIRST) + COEFFICIENT_KEYS, show_if=SHOW_IF)
+values.update({k: later[k] for k in LATER})
 common.page_tools(study)
 system = common.unit_system()
 
@@ -148,6 +159,10 @@ st.markdown(
     f"{common.number_text(d.ship_speed_m_s, 'ship_speed')} — {mode_text}: rotor **{state}**"
     + (f", spinning {spin_dir} seen from above." if spin_dir else ".")
     + f" Coefficients: *{d.setup.coefficients.label}*.")
+if one["state"] > 0:
+    st.markdown(f"The rotors push the ship to **{'port' if one['side_force_n'] < 0 else 'starboard'}** "
+                f"and heel it to **{'port' if one['heeling_moment_nm'] < 0 else 'starboard'}** "
+                "(negative side force and heeling moment = to port).")
 
 st.subheader("What the rotors give")
 common.show_headlines(result, keys=("net_power_w", "thrust_n", "spin_power_w", "heeling_moment_nm"))

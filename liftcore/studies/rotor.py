@@ -28,9 +28,9 @@ TITLE = "Rotor sail on a ship"
 
 _CONDITION_FIELDS = (
     number("ship_speed_m_s", "Ship speed", "ship_speed", 12.0 * KNOT_M_S, 0.0, 30.0 * KNOT_M_S,
-           section="Ship and wind", help="Speed through the water."),
+           section="Ship and wind", step=0.1, help="Speed through the water."),
     number("true_wind_speed_m_s", "True wind speed", "wind_speed", 20.0 * KNOT_M_S, 0.0, 40.0,
-           section="Ship and wind", help="Wind over the sea at the height set under Wind profile "
+           section="Ship and wind", step=0.1, help="Wind over the sea at the height set under Wind profile "
                                          "(10 m by default)."),
     choice("wind_angle_reference", "Wind direction given as", ("relative", "compass"),
            labels=("Angle off the bow", "Compass: ship heading and wind from"),
@@ -279,7 +279,8 @@ def sets_table(d: RotorStudyDetail) -> pd.DataFrame:
     for c in d.comparisons:
         one = c.operation.at(())
         cs = c.coefficients
-        rows.append({"set": cs.label, "kind": cs.kind, "aspect_ratio": cs.aspect_ratio,
+        rows.append({"set": cs.label, "short": cs.label.split(" (")[0], "kind": cs.kind,
+                     "aspect_ratio": cs.aspect_ratio,
                      "end_plate_ratio": cs.end_plate_ratio,
                      "sr_range": f"{cs.sr_range[0]:g} to {cs.sr_range[1]:g}",
                      "reynolds_range": f"{cs.reynolds_range[0]:.2g} to {cs.reynolds_range[1]:.2g}",
