@@ -15,6 +15,7 @@ and checks that both give the same mean net power gain. Prints seconds and rows 
 from __future__ import annotations
 
 import os
+import resource
 import sys
 import tempfile
 import time
@@ -64,8 +65,10 @@ def main() -> None:
         t = time.perf_counter()
         memory = vy.tally_series(operate, path)
         t_mem = time.perf_counter() - t
+        peak_mb = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
         print(f"  in memory, streamed in blocks of {vy.windstats.DEFAULT_CHUNK_ROWS:,} rows: "
-              f"{t_mem:7.2f} s  {rows / t_mem:10,.0f} rows/s")
+              f"{t_mem:7.2f} s  {rows / t_mem:10,.0f} rows/s  (peak memory of this process "
+              f"{peak_mb:,.0f} MB)")
 
         t = time.perf_counter()
         cluster = vy.local_cluster(2)

@@ -87,12 +87,19 @@ def _circ_to_d(circumference_m: float) -> float:
     return circumference_m / math.pi
 
 
-#: Spin-down constant for a golf ball, c = omega_dot r / (omega v). Smits & Smith (1994) found
-#: omega_dot R^2 / v^2 linear in S, i.e. this form; the constant ~2e-5 is from memory (it matches
-#: the golf-units rule "spin loss per second = 0.0004 x speed [mph] x spin" quoted from their work).
+#: Spin-down constant for a golf ball, c = omega_dot r / (omega v). Form: Smits & Smith's (1994)
+#: wind-tunnel data give omega_dot R^2 / v^2 "an approximately linear function of S, and independent
+#: of Reynold's number (for fixed S) in the range (1.0-2.5)x10^5" (as reported in A. M. Nathan, "The
+#: effect of spin-down on the flight of a baseball", note dated 14 July 2008, Sec. II.A); taking it
+#: proportional to S (through the origin) is our assumption. The value 2e-5 is from memory: the
+#: note's numerical fit lies past the part of it that could be read, and Smits & Smith's chapter was
+#: not found.
 SPIN_DECAY_GOLF = 2.0e-5
-#: Baseball: exponential decay with time constant 30 s at 100 mph, scaled with speed, as used in
-#: Nathan's trajectory calculator (secondary source, from memory): c = r / (30 s x 44.704 m/s).
+#: Baseball: exponential decay with time constant 30 s at 100 mph, scaled with speed:
+#: c = r / (30 s x 44.704 m/s). The form d omega/dt proportional to v omega is that of Nathan's
+#: note (2008), Sec. I, Eq. (4): d omega/dt = -0.020 k v omega (v in mph, omega in rad/s), with an
+#: unknown "torque parameter" k; 30 s at 100 mph corresponds to k = 50 / (30 x 100) = 0.0167. The
+#: 30 s itself is from memory (no published source found).
 SPIN_DECAY_BASEBALL = (0.5 * 9.125 * INCH_M / math.pi) / (30.0 * 100.0 * MPH_M_S)
 
 _BASEBALL_D = (_circ_to_d(9.0 * INCH_M), _circ_to_d(9.25 * INCH_M))
@@ -103,7 +110,7 @@ _SOCCER_D = (_circ_to_d(0.68), _circ_to_d(0.70))
 _SOCCER_M = (0.410, 0.450)
 _TENNIS_D = (0.0654, 0.0686)
 _TENNIS_M = (0.0560, 0.0594)
-_CRICKET_D = (_circ_to_d((8.0 + 13.0 / 16.0) * INCH_M), _circ_to_d(9.0 * INCH_M))
+_CRICKET_D = (_circ_to_d(8.81 * INCH_M), _circ_to_d(9.0 * INCH_M))
 _CRICKET_M = (5.5 * OUNCE_KG, 5.75 * OUNCE_KG)
 _VOLLEY_D = (_circ_to_d(0.65), _circ_to_d(0.67))
 _VOLLEY_M = (0.260, 0.280)
@@ -113,9 +120,11 @@ _ASSUMED = "assumed equal to the golf-ball value (not measured for this ball)"
 BALLS: dict[str, BallSpec] = {
     "baseball": BallSpec(
         "baseball", "Baseball", _mid(*_BASEBALL_D), _mid(*_BASEBALL_M), _BASEBALL_D, _BASEBALL_M,
-        "Official Baseball Rules, Rule 3.01: 5 to 5 1/4 oz, 9 to 9 1/4 in circumference",
+        "Official Baseball Rules, Rule 3.01 (rule number from memory): not less than 5 nor more than "
+        "5 1/4 oz avoirdupois, not less than 9 nor more than 9 1/4 in circumference",
         "nathan2008", SPIN_DECAY_BASEBALL,
-        "time constant 30 s at 100 mph, scaled with speed (Nathan's calculator; secondary source, from memory)",
+        "time constant 30 s at 100 mph, scaled with speed (form as in Nathan's 2008 spin-down note, "
+        "Eq. 4; the 30 s is from memory)",
         True, seams=True),
     "softball": BallSpec(
         "softball", "Softball (12 in)", _mid(*_SOFTBALL_D), _mid(*_SOFTBALL_M), _SOFTBALL_D, _SOFTBALL_M,
@@ -126,30 +135,35 @@ BALLS: dict[str, BallSpec] = {
     "golf": BallSpec(
         "golf", "Golf ball", 1.680 * INCH_M, 1.620 * OUNCE_KG, (1.680 * INCH_M, None),
         (None, 1.620 * OUNCE_KG),
-        "Rules of Golf, Equipment Rules Part 4 (Golf Balls): weight not greater than 1.620 oz, "
-        "diameter not less than 1.680 in",
-        "smits1994", SPIN_DECAY_GOLF, "Smits & Smith (1994) spin-down form; constant from memory", True),
+        "Rules of Golf, Equipment Rules Part 4 (Golf Balls; part number from memory): weight not "
+        "greater than 1.620 oz (45.93 g), diameter not less than 1.680 in (42.67 mm)",
+        "smits1994", SPIN_DECAY_GOLF,
+        "form after Smits & Smith (1994) as reported in Nathan's 2008 spin-down note; constant from memory",
+        True),
     "soccer": BallSpec(
         "soccer", "Football (soccer, size 5)", _mid(*_SOCCER_D), _mid(*_SOCCER_M), _SOCCER_D, _SOCCER_M,
-        "Laws of the Game (IFAB), Law 2: circumference 68 to 70 cm, 410 to 450 g",
+        "Laws of the Game (IFAB), Law 2.1 (Qualities and measurements): circumference between 68 cm "
+        "and 70 cm, between 410 g and 450 g at the start of the match",
         "asai2007", SPIN_DECAY_GOLF, _ASSUMED, False, seams=True),
     "tennis": BallSpec(
         "tennis", "Tennis ball (type 2)", _mid(*_TENNIS_D), _mid(*_TENNIS_M), _TENNIS_D, _TENNIS_M,
-        "ITF Rules of Tennis, Appendix I: mass 56.0 to 59.4 g, diameter 6.54 to 6.86 cm",
+        "ITF Rules of Tennis, Appendix I (type 2, medium): mass 56.0 to 59.4 g, size 6.54 to 6.86 cm",
         "cross2014", SPIN_DECAY_GOLF, _ASSUMED, False, seams=True),
     "cricket": BallSpec(
         "cricket", "Cricket ball (men's)", _mid(*_CRICKET_D), _mid(*_CRICKET_M), _CRICKET_D, _CRICKET_M,
-        "Laws of Cricket (MCC), Law 4.1: 5.5 to 5.75 oz, 8 13/16 to 9 in circumference",
+        "Laws of Cricket (MCC, 2017 Code), Law 4.1: 5.5 to 5.75 oz (155.9 to 163 g), 8.81 to 9 in "
+        "(22.4 to 22.9 cm) circumference",
         "achenbach1972", SPIN_DECAY_GOLF, _ASSUMED, False, seams=True,
         note="Smooth-sphere drag assumed; seam swing not modelled."),
     "volleyball": BallSpec(
         "volleyball", "Volleyball", _mid(*_VOLLEY_D), _mid(*_VOLLEY_M), _VOLLEY_D, _VOLLEY_M,
-        "Official Volleyball Rules (FIVB), Rule 3.1: circumference 65 to 67 cm, 260 to 280 g",
+        "Official Volleyball Rules (FIVB), Rule 3.1 (rule number from memory): circumference 65 to "
+        "67 cm, weight 260 to 280 g",
         "asai2007", SPIN_DECAY_GOLF, _ASSUMED, False, seams=True,
         note="Panelled-ball (football) coefficients assumed."),
     "table_tennis": BallSpec(
         "table_tennis", "Table-tennis ball", 0.040, 0.0027, (0.040, 0.040), (0.0027, 0.0027),
-        "Laws of Table Tennis (ITTF Handbook), 2.3: diameter 40 mm, mass 2.7 g",
+        "Laws of Table Tennis (ITTF Handbook), 2.3.1 and 2.3.2: diameter 40 mm, weight 2.7 g",
         "achenbach1972", SPIN_DECAY_GOLF, _ASSUMED, False),
 }
 
@@ -172,33 +186,35 @@ def custom_ball(diameter_m: float, mass_kg: float, model: str = "achenbach1972")
 
 # ----------------------------------------------------------------------------- coefficient models
 def drag_coefficient_nathan2008(spin_rpm):
-    """Baseball drag rising with spin, CD = 0.3008 + 0.0292 (spin / 1000 rpm).
+    """Baseball drag rising with spin, CD = 0.3008 + 0.0292 (spin / 1000 rpm) (from memory).
 
     Notes
     -----
-    Constants as used with Nathan's baseball trajectory work (from memory; not checked against
-    the original). No drag crisis: batted and pitched balls sit above it.
+    Both constants are from memory: no published source for them was found ([1]'s abstract
+    reports lift measurements only). No drag crisis: batted and pitched balls are taken to sit
+    above it.
 
     References
     ----------
     .. [1] Nathan, A. M. (2008). The effect of spin on the flight of a baseball.
-       Am. J. Phys. 76, 119-124.
+       Am. J. Phys. 76, 119-124, doi:10.1119/1.2805242.
     """
     return 0.3008 + 0.0292 * np.asarray(spin_rpm, dtype=float) / 1000.0
 
 
 def lift_coefficient_nathan2008(spin_parameter):
-    """Baseball lift, CL = 1.120 S / (0.583 + 2.333 S) (saturating in S).
+    """Baseball lift, CL = 1.120 S / (0.583 + 2.333 S) (saturating in S; from memory).
 
     Notes
     -----
-    Fit to the data of [1] (S = 0.09 to 0.6, Re = 1.1e5 to 2.4e5, ranges checked against [1]);
-    the three constants are from a secondary restatement of Nathan's calculator (from memory).
+    Meant to follow the data of [1]; the ranges are published in [1]'s abstract: v = 50-110 mph,
+    1500-4500 rpm, Re = (1.1-2.4) x 10^5, S = 0.090-0.595. The three constants are from memory of a
+    secondary restatement; they were not found in [1] or any other published source.
 
     References
     ----------
     .. [1] Nathan, A. M. (2008). The effect of spin on the flight of a baseball.
-       Am. J. Phys. 76, 119-124.
+       Am. J. Phys. 76, 119-124, doi:10.1119/1.2805242.
     """
     s = np.asarray(spin_parameter, dtype=float)
     return 1.120 * s / (0.583 + 2.333 * s)
@@ -207,10 +223,17 @@ def lift_coefficient_nathan2008(spin_parameter):
 def lift_coefficient_sawicki2003(spin_parameter):
     """Baseball lift, bilinear: CL = 1.5 S for S < 0.1, CL = 0.09 + 0.6 S above (from memory).
 
+    Notes
+    -----
+    [1]'s abstract confirms that its flight model uses "experimental lift and drag profiles
+    (including the drag crisis)"; the formula and its constants were not found in a readable
+    published text and stay from memory.
+
     References
     ----------
     .. [1] Sawicki, G. S., Hubbard, M. and Stronge, W. J. (2003). How to hit home runs: optimum
-       baseball bat swing parameters for maximum range trajectories. Am. J. Phys. 71, 1152-1162.
+       baseball bat swing parameters for maximum range trajectories. Am. J. Phys. 71, 1152-1162,
+       doi:10.1119/1.1604384.
     """
     s = np.asarray(spin_parameter, dtype=float)
     return np.where(s < 0.1, 1.5 * s, 0.09 + 0.6 * s)
@@ -222,7 +245,8 @@ def drag_coefficient_sawicki2003(speed_m_s):
     Notes
     -----
     CD = 0.500 below 60 mph, falling linearly by 0.0125 per mph to 0.250 at 80 mph and constant
-    above: the shape of the profile in [1] (constants recalled, not checked).
+    above: the shape of the profile in [1] (constants recalled, not checked; no published text
+    giving them was found).
 
     References
     ----------
@@ -238,7 +262,8 @@ def drag_coefficient_smits1994(spin_parameter):
     References
     ----------
     .. [1] Smits, A. J. and Smith, D. R. (1994). A new aerodynamic model of a golf ball in
-       flight. In Science and Golf II, E & FN Spon, London (pages not checked).
+       flight. In Science and Golf II, E & FN Spon, London (pages not checked; the chapter was
+       not found, so the formula stays from memory).
     """
     return 0.24 + 0.18 * np.asarray(spin_parameter, dtype=float)
 
@@ -248,15 +273,17 @@ def lift_coefficient_smits1994(spin_parameter):
 
     References
     ----------
-    .. [1] Smits & Smith (1994), Science and Golf II. Compare the wind-tunnel data of
-       Bearman, P. W. and Harvey, J. K. (1976). Golf ball aerodynamics. Aeronaut. Q. 27, 112-122.
+    .. [1] Smits & Smith (1994), Science and Golf II (not found; formula from memory). Compare
+       the wind-tunnel data of Bearman, P. W. and Harvey, J. K. (1976). Golf ball aerodynamics.
+       Aeronaut. Q. 27, 112-122.
     """
     s = np.maximum(np.asarray(spin_parameter, dtype=float), 0.0)
     return 0.54 * s ** 0.4
 
 
 def drag_coefficient_stepanek1988(spin_parameter):
-    """Tennis ball drag, CD = 0.508 + [22.503 + 4.196 S^-2.5]^-0.4 (from memory).
+    """Tennis ball drag, CD = 0.508 + [22.503 + 4.196 S^-2.5]^-0.4 (from memory; the paper's
+    text was not found).
 
     References
     ----------
@@ -268,7 +295,7 @@ def drag_coefficient_stepanek1988(spin_parameter):
 
 
 def lift_coefficient_stepanek1988(spin_parameter):
-    """Tennis ball lift, CL = 1 / (2.022 + 0.981 / S) (from memory).
+    """Tennis ball lift, CL = 1 / (2.022 + 0.981 / S) (from memory; the paper's text was not found).
 
     References
     ----------
@@ -279,7 +306,8 @@ def lift_coefficient_stepanek1988(spin_parameter):
 
 
 #: Mean drag coefficient of new tennis balls in free flight, independent of speed (15-30 m/s)
-#: and spin (up to 2500 rpm): 0.507 +/- 0.024 (Cross & Lindsey 2014, abstract).
+#: and spin (up to 2500 rpm): 0.507 +/- 0.024 (Cross & Lindsey 2014, abstract: "The average drag
+#: coefficient was 0.507 +/- 0.024, independent of ball speed or spin").
 CD_TENNIS_CROSS2014 = 0.507
 
 
@@ -305,8 +333,10 @@ def drag_coefficient_logistic_crisis(reynolds, cd_sub, cd_super, re_crit, re_wid
     return cd_super + (cd_sub - cd_super) / (1.0 + np.exp(arg))
 
 
-#: Football drag crisis: critical Re 2.2e5 to 3.0e5 for soccer balls (Asai et al. 2007, abstract);
-#: sub- and super-critical CD 0.47 and 0.25 are from memory.
+#: Football drag crisis: critical Re 2.2e5 to 3.0e5 for soccer balls (Asai et al. 2007, abstract:
+#: "the critical Reynolds number (Re_crit) of soccer balls ranged from 2.2 x 10^5 to 3.0 x 10^5");
+#: the centre 2.6e5 and width 0.2e5 of the step are ours; sub- and super-critical CD 0.47 and 0.25
+#: are from memory (the abstract gives no CD levels).
 SOCCER_CRISIS = dict(cd_sub=0.47, cd_super=0.25, re_crit=2.6e5, re_width=0.2e5)
 SOCCER_CRISIS_RE = (2.2e5, 3.0e5)
 
@@ -319,7 +349,7 @@ def drag_coefficient_asai2007(reynolds):
     .. [1] Asai, T., Seo, K., Kobayashi, O. and Sakashita, R. (2007). Fundamental aerodynamics
        of the soccer ball. Sports Engineering 10, 101-110.
     .. [2] Goff, J. E. and Carre, M. J. (2009). Trajectory analysis of a soccer ball.
-       Am. J. Phys. 77, 1020-1027.
+       Am. J. Phys. 77, 1020-1027, doi:10.1119/1.3197187.
     """
     return drag_coefficient_logistic_crisis(reynolds, **SOCCER_CRISIS)
 
@@ -331,9 +361,11 @@ def lift_coefficient_saturating(spin_parameter, a: float = 0.5205, b: float = 2.
     return s / (a + b * s)
 
 
-#: Smooth sphere CD against Re through the drag crisis, read from the curve of Achenbach (1972)
+#: Smooth sphere CD against Re through the drag crisis, after the curve of Achenbach (1972)
 #: (from memory: subcritical 0.47, crisis near Re 3.7e5, minimum about 0.07, rising again to about
-#: 0.19 at Re 4e6).
+#: 0.19 at Re 4e6). Published and checked: the paper's range, 5 x 10^4 < Re < 6 x 10^6, smooth
+#: surface, free-stream turbulence about 0.45 % (abstract, p. 565); Asai et al. (2007, abstract)
+#: put the smooth-sphere critical Re at about 3.5 x 10^5 to 4.0 x 10^5, consistent with the table.
 _ACH_LOG_RE = np.log10([1e4, 1e5, 2e5, 3e5, 3.5e5, 3.7e5, 4e5, 5e5, 1e6, 2e6, 4e6, 6e6])
 _ACH_CD = np.array([0.47, 0.47, 0.46, 0.40, 0.30, 0.18, 0.08, 0.07, 0.11, 0.15, 0.18, 0.19])
 
@@ -357,12 +389,13 @@ def drag_coefficient_achenbach1972(reynolds):
 
     Notes
     -----
-    Outside 1e4 to 6e6 the end values are held. Table in :data:`_ACH_CD` (read from memory).
+    Outside 1e4 to 6e6 the end values are held (the paper's range is 5e4 to 6e6). Table in
+    :data:`_ACH_CD` (read from memory).
 
     References
     ----------
     .. [1] Achenbach, E. (1972). Experiments on the flow past spheres at very high Reynolds
-       numbers. J. Fluid Mech. 54, 565-575.
+       numbers. J. Fluid Mech. 54 (part 3), 565-575.
     """
     lr = np.clip(np.log10(np.maximum(np.asarray(reynolds, dtype=float), 1.0)),
                  _ACH_LOG_RE[0], _ACH_LOG_RE[-1])
@@ -409,19 +442,24 @@ def _constant(S, Re, V, rpm):
 
 MODELS: dict[str, CoefficientModel] = {
     "nathan2008": CoefficientModel(
-        "nathan2008", "Baseball: Nathan (2008)",
-        "Nathan, A. M. (2008). The effect of spin on the flight of a baseball. Am. J. Phys. 76, 119-124.",
+        "nathan2008", "Baseball: after Nathan (2008)",
+        "Nathan, A. M. (2008). The effect of spin on the flight of a baseball. Am. J. Phys. 76, 119-124, "
+        "doi:10.1119/1.2805242.",
         lambda S, Re, V, rpm: (drag_coefficient_nathan2008(rpm), lift_coefficient_nathan2008(S)),
-        (0.09, 0.6), (1.1e5, 2.4e5), True,
-        note="Ranges from the paper; fit constants from memory (secondary restatement).",
-        provenance={"cd": "from memory", "cl": "secondary source, from memory",
+        # Nathan (2008), abstract: spin factors S 0.090-0.595, Re = (1.1-2.4) x 10^5
+        (0.090, 0.595), (1.1e5, 2.4e5), True,
+        note="S and Re ranges published (paper's abstract); drag and lift constants from memory "
+             "(not found; the paper's abstract reports lift measurements only).",
+        provenance={"cd": "from memory", "cl": "from memory (secondary restatement)",
                     "range": "published (abstract)"}),
     "sawicki2003": CoefficientModel(
         "sawicki2003", "Baseball: Sawicki, Hubbard & Stronge (2003)",
-        "Sawicki, G. S., Hubbard, M. and Stronge, W. J. (2003). How to hit home runs. Am. J. Phys. 71, 1152-1162.",
+        "Sawicki, G. S., Hubbard, M. and Stronge, W. J. (2003). How to hit home runs. Am. J. Phys. 71, "
+        "1152-1162, doi:10.1119/1.1604384.",
         lambda S, Re, V, rpm: (drag_coefficient_sawicki2003(V), lift_coefficient_sawicki2003(S)),
         (0.05, 0.5), (0.5e5, 2.5e5), True, crisis_re=(1.2e5, 1.8e5),
-        note="Bilinear lift and speed-dependent drag crisis, both from memory.",
+        note="Bilinear lift and speed-dependent drag crisis, both from memory (the paper's "
+             "abstract confirms only that it uses measured lift and drag profiles with a drag crisis).",
         provenance={"cd": "from memory", "cl": "from memory", "range": "from memory"}),
     "smits1994": CoefficientModel(
         "smits1994", "Golf: Smits & Smith (1994)",
@@ -445,17 +483,18 @@ MODELS: dict[str, CoefficientModel] = {
         "Sports Engineering 17, 89-96; lift: Stepanek (1988), Am. J. Phys. 56, 138-142.",
         lambda S, Re, V, rpm: (drag_coefficient_cross2014(S), lift_coefficient_stepanek1988(S)),
         (0.0, 0.58), (6.5e4, 1.4e5), True,
-        note="CD 0.507 published (15-30 m/s, up to 2500 rpm); lift formula from memory.",
+        note="CD 0.507 +/- 0.024 published (abstract; 15-30 m/s, up to 2500 rpm); lift formula "
+             "from memory.",
         provenance={"cd": "published (abstract)", "cl": "from memory", "range": "published (abstract)"}),
     "asai2007": CoefficientModel(
         "asai2007", "Football: drag crisis after Asai et al. (2007)",
         "Asai, T., Seo, K., Kobayashi, O. and Sakashita, R. (2007). Fundamental aerodynamics of the "
         "soccer ball. Sports Engineering 10, 101-110; Goff, J. E. and Carre, M. J. (2009). Trajectory "
-        "analysis of a soccer ball. Am. J. Phys. 77, 1020-1027.",
+        "analysis of a soccer ball. Am. J. Phys. 77, 1020-1027, doi:10.1119/1.3197187.",
         lambda S, Re, V, rpm: (drag_coefficient_asai2007(Re), lift_coefficient_saturating(S)),
         (0.0, 0.4), (1.0e5, 5.0e5), True, crisis_re=SOCCER_CRISIS_RE,
-        note="Critical Re 2.2e5-3.0e5 published; CD levels from memory; lift curve assumed "
-             "(baseball shape).",
+        note="Critical Re 2.2e5-3.0e5 published (Asai et al. 2007, abstract); CD levels from "
+             "memory; lift curve assumed (baseball shape).",
         provenance={"cd": "crisis Re published, levels from memory", "cl": "assumed",
                     "range": "from memory"}),
     "achenbach1972": CoefficientModel(
@@ -463,10 +502,11 @@ MODELS: dict[str, CoefficientModel] = {
         "Achenbach, E. (1972). Experiments on the flow past spheres at very high Reynolds numbers. "
         "J. Fluid Mech. 54, 565-575.",
         lambda S, Re, V, rpm: (drag_coefficient_achenbach1972(Re), lift_coefficient_saturating(S)),
+        # Achenbach (1972), abstract (p. 565): 5 x 10^4 < Re < 6 x 10^6
         (0.0, 0.6), (5.0e4, 6.0e6), True, crisis_re=(3.0e5, 5.0e5),
-        note="Drag curve read from memory; lift curve assumed (baseball shape); smooth-sphere "
-             "negative Magnus effect near the crisis not modelled.",
-        provenance={"cd": "from memory", "cl": "assumed", "range": "from memory"}),
+        note="Re range published (abstract); drag curve read from memory; lift curve assumed "
+             "(baseball shape); smooth-sphere negative Magnus effect near the crisis not modelled.",
+        provenance={"cd": "from memory", "cl": "assumed", "range": "Re published (abstract)"}),
     "constant": CoefficientModel(
         "constant", "Constant CD and CL (your values)", "user-defined constants", _constant,
         (0.0, math.inf), (0.0, math.inf), False,

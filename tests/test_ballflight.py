@@ -136,15 +136,19 @@ def test_well_hit_baseball_carries_about_400_ft_and_5_percent_farther_at_1600_m(
     la = bf.Launch(100.0 * MPH, elevation, 0.0, 2000.0, 0.0, 0.0, 1.0)
     sea = bf.simulate(setup("baseball", 0.0), la)
     high = bf.simulate(setup("baseball", 1600.0), la)
-    # Meyer & Bohn (2008), Am. J. Phys. 76 (humid air and a baseball's flight): a ball hit near
-    # 100 mph at 25-30 deg carries about 400 ft at sea level and about 5 % farther at 1600 m
+    # Meyer & Bohn (2008), "Influence of a humidor on the aerodynamics of baseballs", Am. J. Phys. 76
+    # (November issue), Sec. I: "a typical home run ball" travels 400 ft at sea level and 420 ft in
+    # Denver, one mile (1609 m) above sea level, i.e. 5 % farther (the paper adds that prevailing
+    # winds there make this less than aerodynamics alone would give). The launch (100 mph, 25-30 deg,
+    # 2000 rpm backspin) is our choice of a typical home-run hit, not from the paper.
     # (tolerance: +/- 10 % and 3-8 %)
     assert 360.0 < sea.carry_m[0] / 0.3048 < 440.0
     assert 1.03 < high.carry_m[0] / sea.carry_m[0] < 1.08
 
 
 def test_tennis_drag_is_the_published_mean():
-    # Cross & Lindsey (2014), Sports Engineering 17, 89-96, abstract: CD = 0.507 +/- 0.024
+    # Cross & Lindsey (2014), Sports Engineering 17, 89-96, abstract: "The average drag coefficient
+    # was 0.507 +/- 0.024, independent of ball speed or spin" (15-30 m/s, up to 2500 rpm)
     assert_allclose(drag_coefficient_cross2014([0.0, 0.3]), 0.507)
 
 
@@ -153,27 +157,32 @@ def test_golf_spin_decay_matches_the_golf_units_rule():
     rhs = bf._Rhs(su)
     y0, axis = bf.launch_vectors(bf.Launch(120 * MPH, 20.0, 0.0, 7097.0, 0.0, 0.0, 0.0))
     loss_rpm_per_s = -rhs(y0, bf._params(su, axis, 1))[6, 0] / bf.RPM_RAD_S
-    # Smits & Smith (1994) restated in golf units: spin loss per second = 0.0004 x speed [mph] x spin
-    # [rpm], e.g. 340 rpm/s for 120 mph and 7097 rpm (worked example of that restatement)
+    # Golf-units rule of thumb, spin loss per second = 0.0004 x speed [mph] x spin [rpm] (e.g. 340
+    # rpm/s for 120 mph and 7097 rpm), recalled as a restatement of Smits & Smith (1994): from
+    # memory, no published source found. It checks the units of the decay term against c = 2e-5
+    # (balls.SPIN_DECAY_GOLF, also from memory), not a published value.
     assert_allclose(loss_rpm_per_s, 0.0004 * 120 * 7097, rtol=0.06)
 
 
 # ----------------------------------------------------------------------------- ball specs
 # Rules as published, in their own units: (low, high) circumference or diameter [in or cm], mass [oz or g]
 RULES = {
-    # Official Baseball Rules, Rule 3.01: 5 to 5 1/4 oz avoirdupois, 9 to 9 1/4 in circumference
+    # Official Baseball Rules (rule number 3.01 from memory): "not less than five nor more than 5 1/4
+    # ounces avoirdupois and ... not less than nine nor more than 9 1/4 inches in circumference"
     "baseball": ("circ_in", (9.0, 9.25), "oz", (5.0, 5.25)),
     # Official Rules of Softball (WBSC), 12-inch ball: 11.88 to 12.13 in, 6.25 to 7.00 oz (from memory)
     "softball": ("circ_in", (11.88, 12.13), "oz", (6.25, 7.00)),
-    # Laws of the Game (IFAB), Law 2: circumference 68 to 70 cm, 410 to 450 g
+    # Laws of the Game (IFAB) 2023-24, Law 2.1 Qualities and measurements: circumference between 68 cm
+    # and 70 cm, between 410 g and 450 g in weight at the start of the match
     "soccer": ("circ_cm", (68.0, 70.0), "g", (410.0, 450.0)),
-    # ITF Rules of Tennis, Appendix I (type 2): diameter 6.54 to 6.86 cm, mass 56.0 to 59.4 g
+    # ITF Rules of Tennis, Appendix I, table, type 2 (medium): size 6.54 to 6.86 cm, mass 56.0 to 59.4 g
     "tennis": ("diam_cm", (6.54, 6.86), "g", (56.0, 59.4)),
-    # Laws of Cricket (MCC), Law 4.1: 8 13/16 to 9 in circumference, 5.5 to 5.75 oz
-    "cricket": ("circ_in", (8.8125, 9.0), "oz", (5.5, 5.75)),
-    # Official Volleyball Rules (FIVB), Rule 3.1: circumference 65 to 67 cm, 260 to 280 g
+    # Laws of Cricket (MCC, 2017 Code), Law 4.1 Weight and size: 5.5 to 5.75 oz (155.9 to 163 g),
+    # 8.81 to 9 in (22.4 to 22.9 cm) circumference (the 2000 Code, Law 5.1, gave 8 13/16 in)
+    "cricket": ("circ_in", (8.81, 9.0), "oz", (5.5, 5.75)),
+    # Official Volleyball Rules (FIVB), Rule 3.1 (number from memory): circumference 65-67 cm, 260-280 g
     "volleyball": ("circ_cm", (65.0, 67.0), "g", (260.0, 280.0)),
-    # Laws of Table Tennis (ITTF Handbook) 2.3: diameter 40 mm, mass 2.7 g
+    # Laws of Table Tennis (ITTF Handbook) 2.3.1: diameter 40 mm; 2.3.2: weight 2.7 g
     "table_tennis": ("diam_cm", (4.0, 4.0), "g", (2.7, 2.7)),
 }
 
@@ -197,7 +206,8 @@ def test_ball_specs_lie_inside_their_rules(key):
 
 def test_golf_ball_at_the_rule_limits():
     b = ball("golf")
-    # Rules of Golf, Equipment Rules Part 4: diameter not less than 1.680 in, weight not more than 1.620 oz
+    # Rules of Golf, equipment rules on the ball (Part 4; formerly Appendix III): diameter not less than
+    # 1.680 in (42.67 mm), weight not greater than 1.620 oz avoirdupois (45.93 g)
     assert_allclose(b.diameter_m / INCH_M, 1.680)
     assert_allclose(b.mass_kg / OUNCE_KG, 1.620)
 
@@ -208,6 +218,17 @@ def test_unknown_ball_lists_the_valid_keys():
     with pytest.raises(InputError) as exc:
         run_study("flight", {"ball": "pingpong"})
     assert "Ball must be one of baseball" in str(exc.value) and "\n" not in str(exc.value)
+
+
+def test_model_ranges_are_the_published_ones():
+    # Nathan (2008), Am. J. Phys. 76, 119, abstract: Re = (1.1-2.4) x 10^5, spin factors 0.090-0.595
+    assert MODELS["nathan2008"].s_range == (0.090, 0.595)
+    assert MODELS["nathan2008"].re_range == (1.1e5, 2.4e5)
+    # Achenbach (1972), J. Fluid Mech. 54, 565, abstract: 5 x 10^4 < Re < 6 x 10^6
+    assert MODELS["achenbach1972"].re_range == (5.0e4, 6.0e6)
+    # Asai et al. (2007), Fundamental aerodynamics of the soccer ball, abstract: critical Re of soccer
+    # balls 2.2 x 10^5 to 3.0 x 10^5
+    assert MODELS["asai2007"].crisis_re == (2.2e5, 3.0e5)
 
 
 def test_every_model_states_its_source_and_range():
@@ -400,7 +421,7 @@ def test_scenarios_load_and_run(path):
     r = run_study(s.kind, s.inputs)
     assert r.json["carry_m"] > 50.0
     if s.inputs["compare_with"] == "altitude":
-        # Meyer & Bohn (2008): about 5 % farther at 1600 m
+        # Meyer & Bohn (2008), Am. J. Phys. 76, Sec. I: 400 ft at sea level, 420 ft one mile up (5 %)
         assert 1.03 < r.json["comparison"]["carry_m"] / r.json["carry_m"] < 1.08
     if s.inputs["dispersion_n"]:
         d = r.json["dispersion"]

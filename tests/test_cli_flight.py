@@ -47,7 +47,8 @@ def test_altitude_option_makes_a_baseball_carry_farther(capsys):
     base = ["--ball", "baseball", "--speed-m-s", "44.704", "--elevation-deg", "28", "--spin-rpm", "2000", "--json"]
     _, sea, _ = run_cli(capsys, *base)
     _, high, _ = run_cli(capsys, *base, "--altitude-m", "1600")
-    # Meyer & Bohn (2008), Am. J. Phys. 76: about 5 % farther at 1600 m
+    # Meyer & Bohn (2008), "Influence of a humidor on the aerodynamics of baseballs", Am. J. Phys. 76,
+    # Sec. I: a typical home run goes 400 ft at sea level and 420 ft one mile up (5 % farther)
     assert 1.03 < json.loads(high)["carry_m"] / json.loads(sea)["carry_m"] < 1.08
 
 

@@ -260,3 +260,18 @@ def test_scenarios_load_and_run(path):
     r = run_study(sc.kind, sc.inputs)
     assert math.isfinite(r.headline("annual_fuel_saved").value)
     assert r.json["wind_source"].startswith("invented demo")
+
+
+def test_uploaded_table_errors_name_the_upload():
+    # the page reads an upload's bytes into a DataFrame named after the file
+    df = ws.read_csv_frame(b"# my trade\ntrue_wind_angle_deg,true_wind_speed_m_s,probability\n"
+                           b"0,5,0.5\n90,-2,0.5\n", "my_trade.csv")
+    df.attrs["source_name"] = "my_trade.csv"
+    with pytest.raises(InputError, match=r"^my_trade.csv, row 2: true_wind_speed_m_s must be between 0 "
+                                         r"and 80 m/s \(got -2 m/s\)$"):
+        run_study("voyage", {"wind_kind": "table"}, extra=df)
+    ok = ws.read_csv_frame(b"true_wind_angle_deg,true_wind_speed_m_s,probability\n90,10,1\n", "one.csv")
+    ok.attrs["source_name"] = "one.csv"
+    r = run_study("voyage", {"wind_kind": "table", "sweep": False}, extra=ok)
+    assert r.json["wind_source"] == "one.csv" and r.json["conditions"] == 1
+    assert not any(w.code == "invented_wind" for w in r.warnings)

@@ -87,6 +87,8 @@ def shots_dir(tmp_path_factory):
 def wait_for_app(page, timeout_s: float = 90.0) -> None:
     """Wait until Streamlit has finished running the script (no 'running' indicator)."""
     page.wait_for_selector('[data-testid="stApp"]', timeout=timeout_s * 1000)
+    # Every page starts with a title: the script has begun rendering once it is there.
+    page.wait_for_selector("h1", timeout=timeout_s * 1000)
     deadline = time.time() + timeout_s
     time.sleep(1.0)
     while time.time() < deadline:
@@ -98,3 +100,14 @@ def wait_for_app(page, timeout_s: float = 90.0) -> None:
                 return
         time.sleep(0.3)
     raise AssertionError("the page kept running for more than %.0f s" % timeout_s)
+
+
+def full_screenshot(page, path, width: int = 1600, max_height: int = 7000) -> None:
+    """Screenshot of the whole page. Streamlit scrolls inside its own container, so grow the
+    viewport to the container's height first (``full_page=True`` alone shows one screen)."""
+    height = page.evaluate(
+        "() => { const m = document.querySelector('[data-testid=stMain]') ||"
+        " document.querySelector('section.main'); return m ? m.scrollHeight : 1000; }")
+    page.set_viewport_size({"width": width, "height": int(min(max(height, 800), max_height))})
+    page.wait_for_timeout(800)
+    page.screenshot(path=str(path), full_page=True)

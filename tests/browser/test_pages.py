@@ -2,7 +2,7 @@
 
 import pytest
 
-from tests.browser.conftest import wait_for_app
+from tests.browser.conftest import full_screenshot, wait_for_app
 from views import PAGES
 
 
@@ -14,7 +14,7 @@ def test_page_renders_without_exception(app_url, browser, shots_dir, url_path):
         wait_for_app(page)
         exceptions = page.locator('[data-testid="stException"]')
         assert exceptions.count() == 0, exceptions.first.inner_text()
-        page.screenshot(path=str(shots_dir / f"{url_path}.png"), full_page=True)
+        full_screenshot(page, shots_dir / f"{url_path}.png")
         assert page.locator("h1").count() >= 1
     finally:
         page.close()
