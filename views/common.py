@@ -117,7 +117,7 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         lo, hi = _display_bounds(f, system)
         if wkey not in st.session_state:
             shown = units.to_display(core_value, f.quantity, system) if f.kind == "number" else core_value
-            shown = _clamp(float(f"{shown:.5g}"), lo, hi)  # tidy display; the core value stays exact
+            shown = _clamp(_tidy(shown), lo, hi)  # the core value stays exact unless edited
             shown = int(shown) if f.kind == "int" else float(shown)
             st.session_state[wkey] = shown
             st.session_state[_seed_key(wkey)] = shown
@@ -151,6 +151,17 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         v = c.text_input(text, key=wkey, help=f.help or None)
         st.session_state[skey] = v
     return st.session_state[skey]
+
+
+def _tidy(x: float) -> float:
+    """The shortest number (at most 6 significant digits) within 1e-5 of ``x`` relatively, so a
+    converted 6.1733 m/s shows as 12 kn, not 11.9999 kn."""
+    x = float(x)
+    for digits in range(1, 7):
+        y = float(f"{x:.{digits}g}")
+        if abs(y - x) <= 1e-5 * abs(x):
+            return y
+    return float(f"{x:.6g}")
 
 
 #: How number inputs show their value: up to 7 significant digits, no padding zeros, nothing hidden.
