@@ -404,7 +404,8 @@ def _intake_link(spec: InputSpec) -> None:
         return
     set_values(spec, values)
     n = sum(1 for k in params if k in spec.keys)
-    flash(kind, "success", f"Opened from a share link ({n} input{'s' if n != 1 else ''} differ from the defaults).")
+    differ = "input differs" if n == 1 else "inputs differ"
+    flash(kind, "success", f"Opened from a share link ({n} {differ} from the defaults).")
     if system != unit_system():
         st.session_state[PENDING_UNITS] = system
 
