@@ -165,27 +165,37 @@ def headline_diff_rows(runs: list[Run], system: str = "SI") -> list[dict]:
 
 
 # ----------------------------------------------------------------------------- overlaid chart
-def _key_figure(kind: str, result: StudyResult):
+def figures_for(kind: str, result: StudyResult, system: str = "SI") -> tuple:
+    """The study's charts in ``system``: its optional ``figures_in_units(result, system)`` when it
+    has one (charts with converted axes), else the charts of the result (core units)."""
+    make = getattr(study(kind), "figures_in_units", None)
+    if system != "SI" and callable(make):
+        return tuple(make(result, system))
+    return tuple(result.figures)
+
+
+def _key_figure(kind: str, result: StudyResult, system: str = "SI"):
     """The study's key chart for comparisons: ``COMPARE_FIGURE`` (index or title; ``None`` for
     none) when the study sets it, else its first flat chart that can be overlaid, else its first."""
-    if not result.figures:
+    figures = figures_for(kind, result, system)
+    if not figures:
         return None
     mod = study(kind)
     if not hasattr(mod, "COMPARE_FIGURE"):
-        for title, fig in result.figures:
+        for title, fig in figures:
             if fig.data and all(t.type in OVERLAY_TYPES and t.type != "scatter3d" for t in fig.data):
                 return title, fig
-        return result.figures[0]
+        return figures[0]
     which = mod.COMPARE_FIGURE
     if which is None:
         return None
     if isinstance(which, str):
-        for title, fig in result.figures:
+        for title, fig in figures:
             if title == which:
                 return title, fig
         return None
-    if 0 <= which < len(result.figures):
-        return result.figures[which]
+    if 0 <= which < len(figures):
+        return figures[which]
     return None
 
 
@@ -194,7 +204,7 @@ def _rgba(hex_colour: str, alpha: float) -> str:
     return f"rgba({r},{g},{b},{alpha})"
 
 
-def overlay_figure(runs: list[Run]):
+def overlay_figure(runs: list[Run], system: str = "SI"):
     """The key chart of every option (one kind) drawn over each other, one colour per option.
 
     Returns ``(title, figure)``, or ``None`` when the kind has no key chart or its traces cannot be
@@ -202,7 +212,7 @@ def overlay_figure(runs: list[Run]):
     """
     if not runs:
         return None
-    picked = [_key_figure(r.kind, r.result) for r in runs]
+    picked = [_key_figure(r.kind, r.result, system) for r in runs]
     if any(p is None for p in picked):
         return None
     for _, fig in picked:
@@ -382,7 +392,7 @@ def scenario_report(s: Scenario, result: StudyResult, unit_system: str | None = 
     title = s.title or mod.TITLE
     cautions, sources = _sources_cautions(s.kind)
     figs = "".join(f"<figure class=\"chart\">{_figure_html(fig, f'fig{i}')}<figcaption>{_e(t)}</figcaption></figure>"
-                   for i, (t, fig) in enumerate(result.figures))
+                   for i, (t, fig) in enumerate(figures_for(s.kind, result, system)))
     tables = "".join(_df_html(n, df) for n, df in result.tables.items())
     body = [
         f"<header><h1>{_e(title)}{_invented_badge(s.title, s.note)}</h1>",
@@ -445,13 +455,13 @@ def comparison_report(runs: list[Run], title: str = "", note: str = "", unit_sys
         body.append(_diff_table(names, [([r["label"] + (f" [{r['unit']}]" if r["unit"] else "")] + r["texts"], True)
                                         for r in changed], "Input") if changed
                     else "<p>All inputs are the same in every option.</p>")
-        ov = overlay_figure(group)
+        ov = overlay_figure(group, system)
         if ov is not None:
             body.append(f"<h3>Key chart</h3><figure class=\"chart\">{_figure_html(ov[1], f'ov{gi}')}"
                         f"<figcaption>{_e(ov[0])}</figcaption></figure>")
         else:
             for i, r in enumerate(group):
-                kf = _key_figure(kind, r.result)
+                kf = _key_figure(kind, r.result, system)
                 if kf is not None:
                     body.append(f"<h3>{_e(r.name)}: {_e(kf[0])}</h3><figure class=\"chart\">"
                                 f"{_figure_html(kf[1], f'kf{gi}_{i}')}</figure>")

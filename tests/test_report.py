@@ -232,3 +232,24 @@ def test_default_key_chart_is_the_first_flat_chart_that_overlays(monkeypatch):
     res = StudyResult("demo", {}, (), figures=figs)
     assert rp._key_figure("demo", res)[0] == "side"
     assert rp._key_figure("demo", StudyResult("demo", {}, (), figures=figs[:2]))[0] == "map"
+
+
+def test_a_study_can_draw_its_charts_in_the_chosen_units(monkeypatch):
+    import plotly.graph_objects as go
+
+    from liftcore import units
+
+    def figures_in_units(result, system):
+        x = units.to_display(result.tables["lift curve"]["wind_speed_m_s"].to_numpy(), "wind_speed", system)
+        return ((f"Lift against wind speed [{units.unit_label('wind_speed', system)}]",
+                 go.Figure(go.Scatter(x=x, y=result.tables["lift curve"]["lift_n"], name="lift"))),)
+    monkeypatch.setattr(demo_study, "figures_in_units", figures_in_units, raising=False)
+    monkeypatch.setattr(demo_study, "COMPARE_FIGURE", 0)
+    s = scenario()
+    res = run_study("demo", s.inputs)
+    assert "Lift against wind speed [kn]" in rp.scenario_report(s, res, "marine")
+    assert "Lift against wind speed [kn]" not in rp.scenario_report(s, res, "SI")  # SI: the result's own
+    title, fig = rp.overlay_figure(runs_for({}, {"diameter_m": 3.0}), "imperial")
+    assert title.startswith("Lift against wind speed [mph]")
+    # 1 mph = 0.44704 m/s exactly (NIST SP 811, appendix B)
+    assert_allclose(fig.data[0].x[-1], 40.0 / 0.44704, rtol=1e-12)

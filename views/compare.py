@@ -206,11 +206,11 @@ for gi, (kind, group) in enumerate(group_by_kind(runs)):
         st.markdown(_table(["Result"] + names,
                            [([r["label"], r["texts"][0]] + [f"{t} ({d})" for t, d in zip(r["texts"][1:], r["diffs"][1:])],
                              r["differs"]) for r in hrows]), unsafe_allow_html=True)
-    ov = overlay_figure(group)
+    ov = overlay_figure(group, system)
     if ov is not None:
         common.show_figure(ov[1], key=f"_lc:overlay:{gi}")
     else:
-        figs = [(r.name, _key_figure(kind, r.result)) for r in group]
+        figs = [(r.name, _key_figure(kind, r.result, system)) for r in group]
         figs = [(n, f) for n, f in figs if f is not None]
         if figs:
             fcols = st.columns(len(figs))
