@@ -52,6 +52,8 @@ def check_number(field: str, value, unit: str = "", *, low=None, high=None,
         raise InputError(field, f"{field} must be a number{_range_text(low, high, low_inclusive, high_inclusive, unit)} (got {_fmt(value)})")
     try:
         x = float(value)
+    except OverflowError:  # an integer too large for a float
+        raise InputError(field, f"{field} must be a finite number{_range_text(low, high, low_inclusive, high_inclusive, unit)} (got an integer of about {int(int(value).bit_length() * 0.30103) + 1} digits)") from None
     except (TypeError, ValueError):
         raise InputError(field, f"{field} must be a number{_range_text(low, high, low_inclusive, high_inclusive, unit)} (got {_fmt(value)})") from None
     if not math.isfinite(x):

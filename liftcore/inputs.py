@@ -73,7 +73,10 @@ class Field:
     def validate(self, value, system: str = "SI"):
         """Return the value in core units, or raise :class:`InputError` in ``system``'s units."""
         if self.kind in ("number", "int"):
-            shown = units.to_display(value, self.quantity, system) if _is_num(value) else value
+            try:
+                shown = units.to_display(value, self.quantity, system) if _is_num(value) else value
+            except OverflowError:  # an integer too large for a float: check_number says so
+                shown = value
             lo = None if self.low is None else units.to_display(self.low, self.quantity, system)
             hi = None if self.high is None else units.to_display(self.high, self.quantity, system)
             x = check_number(self.label, shown, self.unit(system), low=_round(lo), high=_round(hi),

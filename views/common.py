@@ -5,23 +5,34 @@ numbers with their warnings, figures, sources and cautions.
 Widget state: the value of every input is kept in core units under ``"{kind}:{key}"`` in
 ``st.session_state``. The widget itself has the key ``"w:{kind}:{key}:{unit system}"``, seeded from
 the core value, so switching units shows the same quantity converted and loses nothing typed.
+A widget left as it was seeded does not write back, so switching units never nudges a value.
+
+Scenario files, share links, kept options and the handout report go through
+:func:`page_tools` (one call per page) and the helpers below it; the Compare options page
+reads the kept options with :func:`kept_options`.
 """
 
 from __future__ import annotations
 
 import hashlib
 import threading
+import urllib.parse
 from collections import OrderedDict
 
 import pandas as pd
 import streamlit as st
 
 from liftcore import units
+from liftcore.errors import InputError
 from liftcore.inputs import Field, InputSpec
-from liftcore.studies import StudyResult, format_number, run_study
+from liftcore.studies import StudyResult, format_number, run_study, study
 from liftcore.validity import ModelWarning
 
 UNIT_KEY = "unit_system"
+#: session keys of the scenario / share-link / options machinery (all prefixed ``_lc:``)
+PENDING_UNITS = "_lc:pending_units"
+TOOLS_BOX = "_lc:tools_box"
+OPTIONS_KEY = "_lc:options"
 UNIT_LABELS = {"SI": "SI (m, m/s, N, kW)", "marine": "Marine (kn, kN, kW, t)",
                "imperial": "Imperial (ft, mph, lbf, °F)"}
 
@@ -29,6 +40,9 @@ UNIT_LABELS = {"SI": "SI (m, m/s, N, kW)", "marine": "Marine (kn, kN, kW, t)",
 # ----------------------------------------------------------------------------- chrome
 def sidebar_chrome() -> None:
     """Unit system switch, shown on every page (rendered by app.py before the page)."""
+    pending = st.session_state.pop(PENDING_UNITS, None)
+    if pending in units.UNIT_SYSTEMS:  # set by a scenario or a share link before this run
+        st.session_state[UNIT_KEY] = pending
     if UNIT_KEY not in st.session_state:
         st.session_state[UNIT_KEY] = "SI"
     st.sidebar.segmented_control("Units", list(units.UNIT_SYSTEMS), key=UNIT_KEY,
@@ -36,6 +50,8 @@ def sidebar_chrome() -> None:
                                  selection_mode="single")
     if st.session_state.get(UNIT_KEY) is None:  # a click on the selected option clears it
         st.session_state[UNIT_KEY] = "SI"
+    # page_tools draws into this box, so saving, sharing and keeping sit just under the units
+    st.session_state[TOOLS_BOX] = st.sidebar.container()
 
 
 def unit_system() -> str:
@@ -53,6 +69,7 @@ def widget_key(kind: str, key: str, system: str) -> str:
 
 def current_values(spec: InputSpec) -> dict:
     """Core-unit values of every input of ``spec`` as currently held in the session."""
+    _prepare(spec)
     return {f.key: st.session_state.get(state_key(spec.kind, f.key), f.default) for f in spec.fields}
 
 
@@ -61,8 +78,15 @@ def set_values(spec: InputSpec, values: dict) -> None:
     for f in spec.fields:
         if f.key in values:
             st.session_state[state_key(spec.kind, f.key)] = values[f.key]
+        prefix = widget_key(spec.kind, f.key, "")  # every widget of this input, in any system
+        for k in [k for k in st.session_state if isinstance(k, str) and k.startswith(prefix)]:
+            del st.session_state[k]
         for system in units.UNIT_SYSTEMS:
-            st.session_state.pop(widget_key(spec.kind, f.key, system), None)
+            st.session_state.pop(_seed_key(widget_key(spec.kind, f.key, system)), None)
+
+
+def _seed_key(wkey: str) -> str:
+    return f"_lc:seed:{wkey}"
 
 
 def _display_bounds(f: Field, system: str):
@@ -82,6 +106,7 @@ def _clamp(x, lo, hi):
 def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = None):
     """Render one input in the current unit system and return its value in core units."""
     c = container or st
+    _prepare(spec)
     system = unit_system()
     wkey = widget_key(spec.kind, f.key, system)
     skey = state_key(spec.kind, f.key)
@@ -92,8 +117,10 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         lo, hi = _display_bounds(f, system)
         if wkey not in st.session_state:
             shown = units.to_display(core_value, f.quantity, system) if f.kind == "number" else core_value
-            shown = _clamp(float(f"{shown:.8g}"), lo, hi)
-            st.session_state[wkey] = int(shown) if f.kind == "int" else float(shown)
+            shown = _clamp(_tidy(shown), lo, hi)  # the core value stays exact unless edited
+            shown = int(shown) if f.kind == "int" else float(shown)
+            st.session_state[wkey] = shown
+            st.session_state[_seed_key(wkey)] = shown
         if f.kind == "int":
             v = c.number_input(text, min_value=None if lo is None else int(lo),
                                max_value=None if hi is None else int(hi), step=1, key=wkey,
@@ -102,8 +129,12 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         else:
             step = f.step if f.step is not None else _auto_step(st.session_state[wkey])
             v = c.number_input(text, min_value=lo, max_value=hi, step=step, key=wkey,
-                               help=f.help or None, format=_auto_format(step))
-            st.session_state[skey] = float(units.from_display(v, f.quantity, system))
+                               help=f.help or None, format=NUMBER_FORMAT)
+            # a widget still showing its seed keeps the exact core value (no drift on unit switches)
+            if st.session_state.get(_seed_key(wkey)) != v:
+                st.session_state[skey] = float(units.from_display(v, f.quantity, system))
+            elif skey not in st.session_state:
+                st.session_state[skey] = core_value
     elif f.kind == "choice":
         if wkey not in st.session_state:
             st.session_state[wkey] = core_value if core_value in f.choices else f.default
@@ -120,6 +151,21 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         v = c.text_input(text, key=wkey, help=f.help or None)
         st.session_state[skey] = v
     return st.session_state[skey]
+
+
+def _tidy(x: float) -> float:
+    """The shortest number (at most 6 significant digits) within 1e-5 of ``x`` relatively, so a
+    converted 6.1733 m/s shows as 12 kn, not 11.9999 kn."""
+    x = float(x)
+    for digits in range(1, 7):
+        y = float(f"{x:.{digits}g}")
+        if abs(y - x) <= 1e-5 * abs(x):
+            return y
+    return float(f"{x:.6g}")
+
+
+#: How number inputs show their value: up to 7 significant digits, no padding zeros, nothing hidden.
+NUMBER_FORMAT = "%.7g"
 
 
 def _auto_step(x: float) -> float:
@@ -281,3 +327,403 @@ def number_text(value: float, kind: str = "ratio", digits: int = 3) -> str:
     if kind in ("ratio", "money"):
         return format_number(value, digits)
     return f"{format_number(units.to_display(value, kind, system), digits)} {units.unit_label(kind, system)}"
+
+
+# ============================================================================= scenarios, links, options
+# Everything below keeps one session's state under "_lc:..." keys; nothing is shared between
+# sessions except the immutable result cache above.
+def _k(name: str, kind: str = "") -> str:
+    return f"_lc:{name}:{kind}" if kind else f"_lc:{name}"
+
+
+def _spec(kind_or_spec) -> InputSpec:
+    if isinstance(kind_or_spec, InputSpec):
+        return kind_or_spec
+    if isinstance(kind_or_spec, str):
+        return study(kind_or_spec).INPUTS
+    return kind_or_spec.INPUTS  # a study module
+
+
+def flash(kind: str, level: str, message: str) -> None:
+    """Queue a message for the page's tools box (shown once, on the next draw)."""
+    st.session_state.setdefault(_k("flash", kind), []).append((level, message))
+
+
+def request_load(kind: str, values: dict, *, title: str | None = None, note: str | None = None,
+                 unit_system: str | None = None, message: str = "") -> None:
+    """Ask the page of ``kind`` to take these inputs before it draws its widgets (next run)."""
+    st.session_state[_k("pending", kind)] = {"values": dict(values), "title": title, "note": note,
+                                             "message": message}
+    if unit_system in units.UNIT_SYSTEMS:
+        st.session_state[PENDING_UNITS] = unit_system
+
+
+def _prepare(spec: InputSpec) -> None:
+    """Apply a pending scenario load and a new share link before the page's widgets are drawn.
+
+    Cheap and idempotent: called from every input helper, does its work once per event.
+    """
+    kind = spec.kind
+    pending = st.session_state.pop(_k("pending", kind), None)
+    if pending is not None:
+        set_values(spec, pending["values"])
+        if pending.get("title") is not None:
+            _set_text(kind, "title", pending["title"])
+        if pending.get("note") is not None:
+            _set_text(kind, "note", pending["note"])
+        if pending.get("message"):
+            flash(kind, "success", pending["message"])
+    _intake_link(spec)
+    if st.session_state.get(PENDING_UNITS) not in (None, unit_system()):
+        st.rerun()  # the unit switch is drawn before the page: take the new units from the top
+
+
+def _query_params() -> dict:
+    try:
+        return st.query_params.to_dict()
+    except Exception:  # outside a script run (unit tests of helpers)
+        return {}
+
+
+def _intake_link(spec: InputSpec) -> None:
+    from liftcore.scenario import is_link, values_from_link
+    from liftcore.studies import STUDY_MODULES
+
+    kind = spec.kind
+    if kind not in STUDY_MODULES:  # a page's helper inputs (not a study): not in links or files
+        return
+    params = _query_params()
+    if not is_link(params) or st.session_state.get(_k("link_seen", kind)) == params:
+        return
+    st.session_state[_k("link_seen", kind)] = params
+    try:
+        values, system = values_from_link(kind, params)
+    except InputError as exc:
+        set_values(spec, spec.defaults())
+        flash(kind, "error", f"This link could not be used: {exc}. The page shows the defaults instead.")
+        return
+    set_values(spec, values)
+    n = sum(1 for k in params if k in spec.keys)
+    differ = "input differs" if n == 1 else "inputs differ"
+    flash(kind, "success", f"Opened from a share link ({n} {differ} from the defaults).")
+    if system != unit_system():
+        st.session_state[PENDING_UNITS] = system
+
+
+def _sync_link(spec: InputSpec, values: dict) -> tuple[dict, list]:
+    """Write the share link of the current inputs into the page URL (only when it changed)."""
+    from liftcore.scenario import LINK_MARKER, link_params
+
+    params, omitted = link_params(spec.kind, values, unit_system())
+    if set(params) == {LINK_MARKER}:  # nothing differs from the defaults: a clean address
+        params = {}
+    if _query_params() != params:
+        try:
+            st.query_params.from_dict(params)
+        except Exception:
+            pass
+    st.session_state[_k("link_seen", spec.kind)] = params
+    return params, omitted
+
+
+def share_url(kind: str, params: dict) -> str:
+    """The full share link of ``params`` on the page of ``kind`` (host from the browser)."""
+    from views import PAGES
+
+    path = next((u for f, _, u, _ in PAGES if f == f"views/{kind}.py"), kind)
+    base = ""
+    try:
+        base = (st.context.url or "").rstrip("/")
+    except Exception:
+        pass
+    query = urllib.parse.urlencode(params)
+    return f"{base}/{path}" + (f"?{query}" if query else "")
+
+
+def _text_state(kind: str, name: str, default: str = "") -> str:
+    return st.session_state.get(_k(name, kind), default)
+
+
+def _set_text(kind: str, name: str, value: str) -> None:
+    st.session_state[_k(name, kind)] = value
+    st.session_state.pop(_k("w" + name, kind), None)
+
+
+def _text_widget(c, kind: str, name: str, label: str, default: str, area: bool = False, **kw) -> str:
+    wkey = _k("w" + name, kind)
+    if wkey not in st.session_state:
+        st.session_state[wkey] = _text_state(kind, name, default)
+    v = (c.text_area if area else c.text_input)(label, key=wkey, **kw)
+    st.session_state[_k(name, kind)] = v
+    return v
+
+
+# ----------------------------------------------------------------------------- results outside the page run
+def cached_result(kind: str, values: dict, extra=None) -> StudyResult:
+    """The study result from the shared cache, computing it without a progress bar if needed
+    (for downloads built outside the page's script run)."""
+    key = _cache_key(kind, values, extra)
+    with _CACHE_LOCK:
+        if key in _CACHE:
+            return _CACHE[key]
+    result = run_study(kind, values, extra=extra)
+    with _CACHE_LOCK:
+        _CACHE[key] = result
+        while len(_CACHE) > _CACHE_SIZE:
+            _CACHE.popitem(last=False)
+    return result
+
+
+def _error_page(message: str) -> str:
+    import html as _html
+
+    return ("<!DOCTYPE html><html lang=\"en\"><meta charset=\"utf-8\"><title>Report not made</title>"
+            f"<body><h1>The report could not be made</h1><p>{_html.escape(message)}</p></body></html>")
+
+
+def _report_maker(kind, values, extra, system, title, note, data_note):
+    from liftcore.report import scenario_report
+    from liftcore.scenario import Scenario
+
+    def make() -> str:
+        try:
+            result = cached_result(kind, values, extra)
+            return scenario_report(Scenario(kind=kind, inputs=values, title=title, note=note,
+                                            unit_system=system), result, system, data_note=data_note)
+        except Exception as exc:  # a download must never fail silently
+            return _error_page(f"{type(exc).__name__}: {exc}")
+    return make
+
+
+def _csv_maker(kind, values, extra, system, title, note):
+    from liftcore.report import scenario_csv
+    from liftcore.scenario import Scenario
+
+    def make() -> str:
+        try:
+            result = cached_result(kind, values, extra)
+            return scenario_csv(Scenario(kind=kind, inputs=values, title=title, note=note,
+                                         unit_system=system), result, system)
+        except Exception as exc:
+            return f"error,{type(exc).__name__}: {exc}\n"
+    return make
+
+
+def file_stem(text: str, fallback: str = "liftcore") -> str:
+    """A safe file name stem from a title: letters, digits and dashes."""
+    out = "".join(ch.lower() if ch.isalnum() else "-" for ch in text).strip("-")
+    while "--" in out:
+        out = out.replace("--", "-")
+    return (out or fallback)[:60]
+
+
+# ----------------------------------------------------------------------------- uploads
+def read_upload(upload, kind: str | None = None):
+    """Parse an uploaded scenario or comparison file; returns the document or ``None`` after
+    flashing a one-line error. Oversized files are refused before they are read."""
+    from liftcore.scenario import MAX_SCENARIO_BYTES, parse_document
+
+    key = kind or "compare"
+    size = getattr(upload, "size", None)
+    if size is not None and size > MAX_SCENARIO_BYTES:
+        flash(key, "error", f"{upload.name} is {size} bytes; scenario files must be at most "
+                            f"{MAX_SCENARIO_BYTES} bytes")
+        return None
+    try:
+        data = upload.read(MAX_SCENARIO_BYTES + 1)
+        return parse_document(data, upload.name)
+    except InputError as exc:
+        flash(key, "error", str(exc))
+        return None
+
+
+def _upload_box(c, kind: str, label: str, help_text: str):
+    """A file uploader that hands each new file over once, then resets itself."""
+    from liftcore.scenario import MAX_SCENARIO_BYTES
+
+    n = st.session_state.get(_k("upload_n", kind), 0)
+    up = c.file_uploader(label, type=["toml"], key=_k(f"upload{n}", kind), help=help_text,
+                         max_upload_size=max(1, MAX_SCENARIO_BYTES // 1_000_000))
+    if up is None or st.session_state.get(_k("upload_seen", kind)) == up.file_id:
+        return None
+    st.session_state[_k("upload_seen", kind)] = up.file_id
+    return up
+
+
+def _reset_upload(kind: str) -> None:
+    st.session_state[_k("upload_n", kind)] = st.session_state.get(_k("upload_n", kind), 0) + 1
+
+
+# ----------------------------------------------------------------------------- kept options
+def kept_options() -> list[dict]:
+    """Options kept in this session: dicts with name, kind, inputs (core units), note, extra."""
+    return st.session_state.setdefault(OPTIONS_KEY, [])
+
+
+def keep_option(kind: str, name: str, values: dict, note: str = "", extra=None) -> str:
+    """Keep ``values`` as a named option; a name already kept for this kind is replaced.
+
+    Raises :class:`InputError` for an empty or too long name, or when four options are kept.
+    """
+    from liftcore.scenario import MAX_OPTION_NAME_CHARS, MAX_OPTIONS
+
+    name = (name or "").strip()
+    if not name:
+        raise InputError("option name", "option name must not be empty")
+    if len(name) > MAX_OPTION_NAME_CHARS:
+        raise InputError("option name", f"option name must be at most {MAX_OPTION_NAME_CHARS} "
+                                        f"characters (got {len(name)})")
+    opts = kept_options()
+    entry = {"name": name, "kind": kind, "inputs": dict(values), "note": note, "extra": extra}
+    for i, o in enumerate(opts):
+        if o["kind"] == kind and o["name"] == name:
+            opts[i] = entry
+            return f"Replaced option “{name}”."
+    if len(opts) >= MAX_OPTIONS:
+        raise InputError("options", f"{MAX_OPTIONS} options are kept already; remove one on the "
+                                    "Compare options page first")
+    opts.append(entry)
+    return f"Kept “{name}” as option {len(opts)} of {MAX_OPTIONS}."
+
+
+def remove_option(index: int) -> None:
+    opts = kept_options()
+    if 0 <= index < len(opts):
+        opts.pop(index)
+
+
+def _next_option_name(kind: str) -> str:
+    names = {o["name"] for o in kept_options()}
+    i = 1
+    while f"Option {i}" in names:
+        i += 1
+    return f"Option {i}"
+
+
+def _keep_callback(kind: str, values: dict, extra, name_key: str) -> None:
+    try:
+        msg = keep_option(kind, st.session_state.get(name_key, ""), values, extra=extra)
+    except InputError as exc:
+        flash(kind, "error", str(exc))
+        return
+    flash(kind, "success", msg + " See them side by side on the Compare options page.")
+    st.session_state.pop(name_key, None)
+
+
+def _reset_callback(kind: str) -> None:
+    spec = _spec(kind)
+    set_values(spec, spec.defaults())
+    flash(kind, "success", "All inputs are back at their defaults.")
+
+
+# ----------------------------------------------------------------------------- the page tools
+def page_tools(kind_or_spec, extra=None, data_note: str = "", container=None) -> None:
+    """Save, load, share, keep and report: the one call each study page makes after its inputs.
+
+    Draws (under the unit switch in the sidebar): keep as option, handout report download, and an
+    expander with the scenario file download and upload, the numbers as CSV, the share link and a
+    reset. Keeps the page URL equal to the share link of the current inputs. ``extra`` is the
+    page's uploaded data (passed to the study for the report; not stored in files or links).
+    """
+    from liftcore.scenario import Comparison, Scenario, scenario_to_toml
+
+    spec = _spec(kind_or_spec)
+    kind = spec.kind
+    mod = study(kind)
+    _prepare(spec)
+    box = container or st.session_state.pop(TOOLS_BOX, None) or st.sidebar
+    values = current_values(spec)
+    system = unit_system()
+
+    with box:
+        for level, msg in st.session_state.pop(_k("flash", kind), []):
+            (st.error if level == "error" else st.warning if level == "warning" else st.success)(msg)
+        name_key = _k("option_name", kind)
+        with st.popover("Keep as option", icon=":material/bookmark_add:", width="stretch",
+                        help="Store these inputs under a name and compare up to four options "
+                             "on the Compare options page"):
+            if name_key not in st.session_state:
+                st.session_state[name_key] = _next_option_name(kind)
+            st.text_input("Option name", key=name_key, max_chars=60)
+            st.button("Keep", key=_k("keep", kind), type="primary", on_click=_keep_callback,
+                      args=(kind, dict(values), extra, name_key))
+            n = len(kept_options())
+            st.caption(f"{n} of 4 options kept.")
+            page_link("views/compare.py", "Compare options", ":material/compare:")
+        title = _text_state(kind, "title", mod.TITLE)
+        note = _text_state(kind, "note", "")
+        stem = file_stem(title, kind)
+        st.download_button("Handout report", data=_report_maker(kind, values, extra, system, title, note, data_note),
+                           file_name=f"{stem}.html", mime="text/html", icon=":material/description:",
+                           key=_k("report", kind), width="stretch", on_click="ignore",
+                           help="A handout (HTML, opens offline, prints to PDF) with inputs, results, "
+                                "charts, warnings, sources and cautions")
+        with st.expander("Save, load, share", icon=":material/folder_open:"):
+            title = _text_widget(st, kind, "title", "Title", mod.TITLE, max_chars=200,
+                                 help="Used for the scenario file, the report and its file names")
+            note = _text_widget(st, kind, "note", "Note", "", area=True, max_chars=5000, height=80)
+            scenario = Scenario(kind=kind, inputs=values, title=title, note=note, unit_system=system)
+            st.download_button("Save scenario (.toml)", data=scenario_to_toml(scenario),
+                               file_name=f"{file_stem(title, kind)}.toml", mime="application/toml",
+                               icon=":material/download:", key=_k("save", kind), on_click="ignore",
+                               width="stretch")
+            st.download_button("Numbers (.csv)", data=_csv_maker(kind, values, extra, system, title, note),
+                               file_name=f"{file_stem(title, kind)}.csv", mime="text/csv",
+                               icon=":material/table:", key=_k("csv", kind), on_click="ignore",
+                               width="stretch")
+            up = _upload_box(st, kind, "Load a scenario file (.toml)",
+                             "A file saved from this page (or any liftcore scenario of this kind). "
+                             "Inputs it does not set take their defaults.")
+            if up is not None:
+                doc = read_upload(up, kind)
+                if isinstance(doc, Comparison):
+                    _load_comparison(doc)
+                    flash(kind, "success", f"{up.name} is a comparison: its {len(doc.options)} options "
+                                           "are kept for the Compare options page.")
+                    _reset_upload(kind)
+                    st.rerun()
+                elif doc is not None and doc.kind != kind:
+                    flash(kind, "error", f"{up.name} is a {doc.kind} scenario; load it on the "
+                                         f"“{study(doc.kind).TITLE}” page")
+                    st.rerun()
+                elif doc is not None:
+                    migrated = (f" (a schema_version {doc.migrated_from} file, read and updated)"
+                                if doc.migrated_from else "")
+                    request_load(kind, doc.inputs, title=doc.title or mod.TITLE, note=doc.note,
+                                 unit_system=doc.unit_system,
+                                 message=f"Loaded {up.name}{migrated}.")
+                    _reset_upload(kind)
+                    st.rerun()
+                else:
+                    st.rerun()  # show the error above; the inputs stay as they were
+            params, omitted = _sync_link(spec, values)
+            st.markdown("**Share link** (opens these inputs):")
+            st.code(share_url(kind, params), language=None, wrap_lines=True)
+            if omitted:
+                st.caption("Not in the link (too long): " + ", ".join(spec.field(k).label for k in omitted))
+            if extra is not None:
+                st.caption("Uploaded data is not stored in the scenario file or the link; keep the data "
+                           "file with them.")
+            st.button("Reset all inputs to defaults", key=_k("reset", kind), icon=":material/restart_alt:",
+                      on_click=_reset_callback, args=(kind,))
+
+
+def page_link(path: str, label: str, icon: str | None = None) -> None:
+    """A link to another page; plain text when the page is not in the navigation (tests)."""
+    from streamlit.errors import StreamlitAPIException
+
+    try:
+        st.page_link(path, label=label, icon=icon)
+    except StreamlitAPIException:
+        st.caption(label)
+
+
+def _load_comparison(doc) -> None:
+    """Replace the kept options by a comparison file's options."""
+    opts = [{"name": o.name, "kind": doc.kind, "inputs": dict(o.inputs), "note": o.note, "extra": None}
+            for o in doc.options]
+    st.session_state[OPTIONS_KEY] = opts
+    st.session_state[_k("cmp_title")] = doc.title
+    st.session_state[_k("cmp_note")] = doc.note
+    if doc.unit_system != unit_system():
+        st.session_state[PENDING_UNITS] = doc.unit_system

@@ -63,6 +63,7 @@ except InputError as exc:
     with st.expander("File format", expanded=True):
         st.markdown(FORMAT_HELP)
     st.stop()
+common.page_tools(study, extra=extra)
 
 common.show_headlines(result)
 common.show_warnings(common.general_warnings(result))

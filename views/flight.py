@@ -20,9 +20,9 @@ from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, integer, number
 from liftcore.studies import flight as study
 from liftcore.studies import format_number
-from views.common import (general_warnings, input_widget, number_text, render_inputs, run_cached,
-                          show_figure, show_headlines, show_sources_and_cautions, show_warnings,
-                          state_key, table_in_units, unit_system)
+from views.common import (general_warnings, input_widget, number_text, page_tools, render_inputs,
+                          run_cached, show_figure, show_headlines, show_sources_and_cautions,
+                          show_warnings, state_key, table_in_units, unit_system)
 
 KIND = study.KIND
 SPEC = study.INPUTS
@@ -394,6 +394,7 @@ values = _sidebar()
 main_values = dict(values, dispersion_n=0)
 kept = st.session_state.get("flight:kept", [])
 extra = {"overlay": tuple(kept)} if kept else None
+page_tools(study, extra=extra)
 try:
     result = run_cached(KIND, main_values, extra=extra, label="Flying")
 except InputError as exc:

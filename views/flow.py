@@ -23,6 +23,7 @@ with st.sidebar:
         "temperature_k": lambda v: v["air_mode"] == "measured",
         "pressure_pa": lambda v: v["air_mode"] == "measured",
     })
+common.page_tools(study)
 
 try:
     result = common.run_cached(study.KIND, values, label="Computing the flow")

@@ -136,6 +136,7 @@ values = common.render_inputs(SPEC, skip=tuple(LATER) + COEFFICIENT_KEYS, show_i
 values = _coefficient_inputs(values)
 later = common.render_inputs(SPEC, skip=tuple(FIRST) + COEFFICIENT_KEYS, show_if=SHOW_IF)
 values.update({k: later[k] for k in LATER})
+common.page_tools(study)
 system = common.unit_system()
 
 try:

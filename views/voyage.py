@@ -8,8 +8,8 @@ import streamlit as st
 from liftcore import windstats
 from liftcore.errors import InputError
 from liftcore.studies import voyage as study
-from views.common import (general_warnings, render_inputs, run_cached, show_figure, show_headlines,
-                          show_sources_and_cautions, show_warnings, unit_system)
+from views.common import (general_warnings, page_tools, render_inputs, run_cached, show_figure,
+                          show_headlines, show_sources_and_cautions, show_warnings, unit_system)
 
 KIND = study.KIND
 UPLOAD_KEY = "voyage:upload"
@@ -82,6 +82,7 @@ if uploaded is not None:
     except InputError as exc:
         st.error(str(exc), icon=":material/error:")
         st.stop()
+page_tools(study, extra=extra)
 
 try:
     result = run_cached(KIND, values, extra=extra, label="Computing the voyage")
