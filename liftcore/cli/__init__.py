@@ -15,6 +15,7 @@ import argparse
 import importlib
 import json
 import math
+import os
 import sys
 
 from liftcore.errors import InputError
@@ -115,8 +116,14 @@ def main(argv=None) -> int:
         print("liftcore: interrupted", file=sys.stderr)
         return 130
     progress.close()
-    if getattr(args, "json", False):
-        print(json.dumps(_clean_json(data), indent=2, ensure_ascii=False))
-    else:
-        print(text)
+    try:
+        if getattr(args, "json", False):
+            print(json.dumps(_clean_json(data), indent=2, ensure_ascii=False))
+        else:
+            print(text)
+        sys.stdout.flush()
+    except BrokenPipeError:  # output piped into a reader that stopped early (e.g. `| head`)
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        return 0
     return 0
