@@ -81,11 +81,18 @@ def test_bad_row_on_dask_names_the_row_of_the_whole_file(scheduler, operate, tmp
 def test_study_on_a_scheduler_equals_the_study_in_process(scheduler):
     upload = pd.read_csv(SERIES, comment="#").iloc[1000:3000]
     base = {"wind_kind": "series", "sweep": False, "rotor_count": 3}
-    here = run_study("voyage", dict(base, dask_scheduler="off"), extra=upload)
-    there = run_study("voyage", dict(base, dask_scheduler=scheduler), extra=upload)
+    with study.computing_on("off"):
+        here = run_study("voyage", base, extra=upload)
+    with study.computing_on(scheduler):
+        there = run_study("voyage", base, extra=upload)
     assert there.detail.engine.startswith("Dask") and here.detail.engine == "in memory"
     for h in here.headlines:
         assert_allclose(there.headline(h.key).value, h.value, rtol=1e-9, equal_nan=True)
+
+
+def test_scheduler_is_not_an_input_of_files_or_links():
+    # A scenario file or a share link must never make the server connect to an address.
+    assert not any("dask" in k or "scheduler" in k for k in study.INPUTS.keys)
 
 
 def test_unreachable_scheduler_is_one_clear_line(operate):

@@ -160,10 +160,6 @@ def values_from_args(args) -> tuple[dict, str]:
         x = getattr(args, opt)
         if x is not None:
             v[key] = x
-    if args.in_process:
-        v["dask_scheduler"] = "off"
-    elif args.dask_scheduler:
-        v["dask_scheduler"] = args.dask_scheduler
     return v, path
 
 
@@ -223,7 +219,9 @@ def _validate(values: dict) -> dict:
 def execute(args, progress):
     values, path = values_from_args(args)
     clean = _validate(values)
-    result = study.run(clean, progress=progress, extra=path)
+    scheduler = "off" if args.in_process else (args.dask_scheduler or None)
+    with study.computing_on(scheduler):
+        result = study.run(clean, progress=progress, extra=path)
     data = dict(result.json)
     if result.detail.sweep is not None:
         data["design_options"] = result.detail.sweep.to_dict(orient="records")

@@ -9,7 +9,10 @@ whole).
 
 from __future__ import annotations
 
+import contextlib
+import contextvars
 import math
+import os
 from dataclasses import dataclass, replace
 from functools import partial
 from pathlib import Path
@@ -47,7 +50,6 @@ _S = "Ship and trade"
 _M = "Money"
 _I = "IMO wind-propulsion term"
 _D = "Design options"
-_C = "Computation"
 
 VOYAGE_FIELDS = (
     choice("wind_kind", "Wind input", WIND_KINDS, default="table", labels=WIND_KIND_LABELS,
@@ -105,10 +107,6 @@ VOYAGE_FIELDS = (
          help="Annual savings for 0.6, 0.8, 1.0 and 1.2 times the entered rotor, from 1 rotor up to "
               "the number below."),
     integer("sweep_max_rotors", "Most rotors to compare", 6, 1, 8, section=_D),
-    text("dask_scheduler", "Dask scheduler for long series", "", section=_C, advanced=True,
-         help="Empty: in this process, or a local cluster for series above "
-              f"{vy.DASK_AUTO_ROWS:,} rows; 'local': always a local cluster; 'off': never; or an "
-              "address such as tcp://10.0.0.5:8786 whose workers can read the file."),
 )
 
 # The trade first (what this page is about), then the rotor inputs shared with the rotor page.
@@ -199,9 +197,27 @@ def _wind_source(values: dict, extra):
     raise InputError("wind", f"wind data must be a table or a CSV file (got {type(extra).__name__})")
 
 
-def _use_dask(values: dict, source) -> str | None:
+#: Where long series run: None (this process, or a local cluster above DASK_AUTO_ROWS rows),
+#: "off", "local" or a scheduler address. Deliberately not a study input: a scenario file or a
+#: share link must never make the server connect to an address; only the command line
+#: (``--dask-scheduler``, ``--in-process``) or the server's environment
+#: (``LIFTCORE_DASK_SCHEDULER``) choose it.
+_SCHEDULER: contextvars.ContextVar = contextvars.ContextVar("voyage_scheduler", default=None)
+
+
+@contextlib.contextmanager
+def computing_on(scheduler: str | None):
+    """Run voyage studies inside this block on ``scheduler`` ("off", "local" or an address)."""
+    token = _SCHEDULER.set(scheduler)
+    try:
+        yield
+    finally:
+        _SCHEDULER.reset(token)
+
+
+def _use_dask(source) -> str | None:
     """None to stay in this process, else ``"local"`` or a scheduler address."""
-    addr = values["dask_scheduler"].strip()
+    addr = (_SCHEDULER.get() or os.environ.get("LIFTCORE_DASK_SCHEDULER") or "").strip()
     if addr.lower() == "off":
         return None
     if addr:
@@ -227,7 +243,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     hours = ship.hours_at_sea_per_year
     hours_source = "entered"
     if kind == "series":
-        scheduler = _use_dask(values, source)
+        scheduler = _use_dask(source)
         if scheduler is None:
             tally = vy.tally_series(operate, source, label, progress=step(0.0, main_end))
         else:
