@@ -507,3 +507,16 @@ def test_an_option_opens_on_its_page():
     assert at.title[0].value == study(doc.kind).TITLE
     assert state_values(at, doc.kind, study(doc.kind).INPUTS) == doc.options[1].inputs
     assert f"Opened option “{doc.options[1].name}”" in messages(at)
+
+
+# The share link is the app's address plus the page's own path, whichever page the browser is on.
+@pytest.mark.parametrize("url, root", [
+    ("http://127.0.0.1:8611/rotor", "http://127.0.0.1:8611"),
+    ("http://127.0.0.1:8611/voyage", "http://127.0.0.1:8611"),
+    ("http://127.0.0.1:8611/", "http://127.0.0.1:8611"),
+    ("https://example.org/tools/lc/flight", "https://example.org/tools/lc"),
+    ("", ""),
+])
+def test_share_link_root_drops_the_current_page(url, root):
+    from views import PAGES, common
+    assert common._app_root(url, {u for _, _, u, _ in PAGES}) == root

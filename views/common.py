@@ -296,7 +296,9 @@ def general_warnings(result: StudyResult) -> list[ModelWarning]:
 
 
 def show_figure(fig, key: str | None = None) -> None:
-    st.plotly_chart(fig, width="stretch", key=key, config={"displaylogo": False})
+    # theme=None keeps the house style of liftcore.figures (large fonts, dark axes) instead of
+    # Streamlit's own chart theme, which shrinks and greys the text on a shared screen.
+    st.plotly_chart(fig, width="stretch", key=key, theme=None, config={"displaylogo": False})
 
 
 def show_sources_and_cautions(study) -> None:
@@ -433,11 +435,22 @@ def share_url(kind: str, params: dict) -> str:
     path = next((u for f, _, u, _ in PAGES if f == f"views/{kind}.py"), kind)
     base = ""
     try:
-        base = (st.context.url or "").rstrip("/")
+        base = _app_root(st.context.url or "", {u for _, _, u, _ in PAGES})
     except Exception:
         pass
     query = urllib.parse.urlencode(params)
     return f"{base}/{path}" + (f"?{query}" if query else "")
+
+
+def _app_root(url: str, page_paths: set) -> str:
+    """The app's own address without the page path and query (``st.context.url`` is the address
+    of the page being shown: ``http://host:8501/rotor``, or under a base path ``.../lc/rotor``)."""
+    parts = urllib.parse.urlsplit(url)
+    segments = [seg for seg in parts.path.split("/") if seg]
+    if segments and segments[-1] in page_paths:
+        segments = segments[:-1]
+    root = f"{parts.scheme}://{parts.netloc}" if parts.scheme and parts.netloc else ""
+    return root + ("/" + "/".join(segments) if segments else "")
 
 
 def _text_state(kind: str, name: str, default: str = "") -> str:

@@ -67,6 +67,16 @@ if target:
     st.switch_page(f"views/{target}.py")
 
 top = st.container()
+def _option_name(title: str) -> str:
+    """A scenario title shortened to fit an option name (the full title stays in the note)."""
+    from liftcore.scenario import MAX_OPTION_NAME_CHARS
+
+    title = " ".join(title.split())
+    if len(title) <= MAX_OPTION_NAME_CHARS:
+        return title
+    return title[:MAX_OPTION_NAME_CHARS - 1].rsplit(" ", 1)[0].rstrip(",;:-") + "…"
+
+
 with st.sidebar:
     st.markdown("**Options**")
     up = common._upload_box(st, "compare", "Load a comparison or scenario file (.toml)",
@@ -79,10 +89,11 @@ with st.sidebar:
             common.flash("compare", "success", f"Loaded {up.name}: {len(doc.options)} options.")
         elif doc is not None:
             try:
-                msg = common.keep_option(doc.kind, doc.title or Path(up.name).stem, doc.inputs, doc.note)
+                msg = common.keep_option(doc.kind, _option_name(doc.title or Path(up.name).stem),
+                                         doc.inputs, doc.note or doc.title)
                 common.flash("compare", "success", f"{up.name}: {msg}")
             except InputError as exc:
-                common.flash("compare", "error", str(exc))
+                common.flash("compare", "error", f"{up.name}: {exc}")
         common._reset_upload("compare")
         st.rerun()
     st.button("Load the invented demo comparison", on_click=_load_demo, icon=":material/science:",
