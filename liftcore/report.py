@@ -16,6 +16,7 @@ import io
 from dataclasses import dataclass
 from functools import lru_cache
 
+import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
@@ -308,7 +309,6 @@ tr.differs td { background: #fff3c4; font-weight: bold; }
 .mark { font-weight: bold; }
 .warnings li { margin-bottom: 4px; }
 .warnings .sev-invalid { color: #8b0000; font-weight: bold; }
-table.dataframe td { text-align: right; font-variant-numeric: tabular-nums; }
 .caution { border: 2px solid #D55E00; border-radius: 6px; padding: 8px 12px; margin: 8px 0;
            break-inside: avoid; page-break-inside: avoid; }
 figure.chart { margin: 10px 0 18px; break-inside: avoid; page-break-inside: avoid; }
@@ -401,13 +401,33 @@ def _inputs_table(kind: str, values: dict, system: str) -> str:
             f"<tbody>{''.join(rows)}</tbody></table><p class=\"meta\">• changed from the default</p>")
 
 
+def _table_title(name: str) -> str:
+    """``wind_angle_sweep`` -> ``Wind angle sweep`` (the CSV keeps the name as it is)."""
+    text = name.replace("_", " ")
+    return text[:1].upper() + text[1:]
+
+
 def _df_html(name: str, df: pd.DataFrame) -> str:
     if len(df) > MAX_REPORT_TABLE_ROWS:
-        return (f"<h3>{_e(name)}</h3><p>{len(df)} rows × {len(df.columns)} columns: in the CSV file "
+        return (f"<h3>{_e(_table_title(name))}</h3><p>{len(df)} rows × {len(df.columns)} columns: in the CSV file "
                 "that comes with this report.</p>")
-    body = df.to_html(index=False, escape=True, border=0, na_rep="–",
-                      float_format=lambda x: format_number(x, 4))
-    return f"<h3>{_e(name)}</h3>{body}"
+    numeric = [pd.api.types.is_numeric_dtype(df[c]) and not pd.api.types.is_bool_dtype(df[c])
+               for c in df.columns]
+
+    def cell(v, num: bool) -> str:
+        if num:
+            text = "–" if v is None or v != v else format_number(float(v), 4)
+            return f"<td class=\"num\">{_e(text)}</td>"
+        if isinstance(v, (bool, np.bool_)):
+            return f"<td>{'yes' if v else 'no'}</td>"
+        return f"<td>{_e('–' if v is None or v != v else v)}</td>"
+
+    head = "".join(f"<th class=\"num\">{_e(c)}</th>" if n else f"<th>{_e(c)}</th>"
+                   for c, n in zip(df.columns, numeric))
+    rows = "".join("<tr>" + "".join(cell(v, n) for v, n in zip(row, numeric)) + "</tr>"
+                   for row in df.itertuples(index=False, name=None))
+    # numbers right-aligned (class num), words left-aligned
+    return f"<h3>{_e(_table_title(name))}</h3><table><thead><tr>{head}</tr></thead><tbody>{rows}</tbody></table>"
 
 
 def _sources_cautions(kind: str) -> str:

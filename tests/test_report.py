@@ -279,7 +279,9 @@ def test_real_study_report_and_overlay_in_imperial_units():
     res = run_study("field", {})
     html = rp.scenario_report(s, res, "imperial")
     gamma = units.to_display(res.detail.circulation.circulations_m2_s[0], "circulation", "imperial")
-    assert "circulation [ft²/s]" in html and f"<td>{format_number(gamma, 4)}</td>" in html
+    assert "circulation [ft²/s]" in html and f"<td class=\"num\">{format_number(gamma, 4)}</td>" in html
+    first = units.to_display(res.detail.circulation.loop_sizes_m[0], "length", "imperial")
+    assert f"<td>circle, radius {first:.4g} ft</td>" in html  # words left-aligned, numbers right
     assert '"text":"x [ft]"' in html  # the map's axis, in the chart's JSON
     flights = [rp.Run(n, "flight", v, run_study("flight", v)) for n, v in
                (("Low", {"elevation_deg": 20.0, "dispersion_n": 0}), ("High", {"elevation_deg": 35.0, "dispersion_n": 0}))]

@@ -204,7 +204,8 @@ def _flight_tab(result, values):
             for k, (label, kind) in bf.OUTPUTS.items():
                 row[f"{label} [{units.unit_label(kind, system)}]"] = float(units.to_display(getattr(f, k), kind, system))
             rows.append(row)
-        st.dataframe(pd.DataFrame(rows).round(2), hide_index=True, width="stretch")
+        st.dataframe(pd.DataFrame(rows).round(2), hide_index=True, width="stretch",
+                     column_config={"Flight": st.column_config.TextColumn(width="large")})
         if d.compare_warnings:
             show_warnings([w for w in d.compare_warnings if w.subject], title="Second flight: warnings")
     c1, c2, c3 = st.columns(3)

@@ -202,6 +202,7 @@ with tab_tables:
                "unit of each number is in its column name. Downloads hold the table as shown.")
     shown_tables = common.study_tables(study, result)
     for name, label in (("operating_point", "Operating point"), ("coefficient_sets", "Coefficient sets"),
+                        ("coefficient_set_sources", "Coefficient set sources"),
                         ("wind_angle_sweep", "Wind angle sweep"), ("along_the_rotor", "Along the rotor")):
         df = shown_tables[name]
         st.markdown(f"**{label}**")

@@ -20,7 +20,7 @@ from liftcore.air import AirState, air_inputs, air_state_from_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, number
-from liftcore.studies import Headline, StudyResult, quantity_table, table_in_units
+from liftcore.studies import Headline, StudyResult, column_label, quantity_table, table_in_units
 from liftcore.validity import merge
 
 KIND = "rotor"
@@ -288,11 +288,13 @@ OPERATING_UNITS = {
 #: Plain names for the core tables' columns before conversion (then the kinds below apply).
 DISPLAY_NAMES = {"rpm": "rotor_speed_rpm", "net_power_w": "net_power_gain_w", "sr_range": "spin_ratio_range",
                  "reynolds_range": "Reynolds_number_range", "thrust_per_m_n_m": "thrust_per_length_n_m"}
-SETS_UNITS = {"aspect_ratio": "ratio", "end_plate_ratio": "ratio", "spin_ratio_range": "ratio",
-              "Reynolds_number_range": "ratio", "spin_ratio": "ratio", "rotor_speed_rpm": "rotation", "thrust_n": "large_force", "spin_power_w": "power", "net_power_gain_w": "power"}
+SETS_UNITS = {"spin_ratio": "ratio", "rotor_speed_rpm": "rotation", "thrust_n": "large_force",
+              "spin_power_w": "power", "net_power_gain_w": "power"}
+#: Where each set comes from (a table of its own: the sources are long).
+SOURCE_COLUMNS = {"set": "ratio", "kind": "ratio", "aspect_ratio": "ratio", "end_plate_ratio": "ratio",
+                  "spin_ratio_range": "ratio", "Reynolds_number_range": "ratio", "source": "ratio"}
 SWEEP_UNITS = {"true_wind_angle_deg": "angle", "apparent_wind_angle_deg": "angle", "spin_ratio": "ratio",
-               "rotor_speed_rpm": "rotation",
-               "thrust_n": "large_force", "side_force_n": "large_force", "heeling_moment_nm": "moment",
+               "rotor_speed_rpm": "rotation", "thrust_n": "large_force", "side_force_n": "large_force", "heeling_moment_nm": "moment",
                "spin_power_w": "power", "net_power_gain_w": "power"}
 SPAN_UNITS = {"height_m": "length", "true_wind_speed_m_s": "wind_speed",
               "apparent_wind_speed_m_s": "wind_speed", "apparent_wind_angle_deg": "angle",
@@ -311,12 +313,14 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
     def shown(name, kinds):
         return table_in_units(result.tables[name].rename(columns=DISPLAY_NAMES), kinds, system)
 
-    sets = shown("coefficient_sets", SETS_UNITS).drop(columns=["short"])
+    every = shown("coefficient_sets", {**SOURCE_COLUMNS, **SETS_UNITS})
+    sets = every[["set"] + [column_label(c, k, system) for c, k in SETS_UNITS.items()] + ["chosen"]]
+    sources = every[[column_label(c) for c in SOURCE_COLUMNS]]
     sweep = shown("wind_angle_sweep", SWEEP_UNITS)
     sweep["state"] = [STATE_WORDS[int(x)] for x in sweep["state"]]
     span = shown("along_the_rotor", SPAN_UNITS)
-    return {"operating_point": op,
-            "coefficient_sets": sets, "wind_angle_sweep": sweep, "along_the_rotor": span}
+    return {"operating_point": op, "coefficient_sets": sets, "coefficient_set_sources": sources,
+            "wind_angle_sweep": sweep, "along_the_rotor": span}
 
 
 # ----------------------------------------------------------------------------- tables (SI)
