@@ -25,6 +25,21 @@ def _lbl(text, kind, system):
     return f"{text} [{u}]" if u else text
 
 
+#: Room for one legend line under a chart, and the gap from the plot to the legend. [px]
+LEGEND_LINE_PX = 28
+LEGEND_GAP_PX = 78
+
+
+def _legend_below(fig: go.Figure, n_entries: int) -> None:
+    """Flight names under the chart (below the x-axis title), one per line, so long names never
+    squeeze the plot; the chart grows by the legend's height and the plot keeps its size."""
+    lay = fig.layout
+    plot_px = lay.height - lay.margin.t - lay.margin.b
+    extra = LEGEND_GAP_PX - lay.margin.b + LEGEND_LINE_PX * n_entries + 10
+    fig.update_layout(legend=dict(orientation="v", yanchor="top", y=-LEGEND_GAP_PX / plot_px, x=0.0),
+                      height=lay.height + extra, margin=dict(b=lay.margin.b + extra))
+
+
 def trajectory_3d(flights, system: str = "SI") -> go.Figure:
     """Where does the ball go? 3-D path of each flight (x downrange, drift right +, height)."""
     fig = base_figure("Flight path in 3-D", height=560)
@@ -61,8 +76,10 @@ def side_view(flights, system: str = "SI") -> go.Figure:
         k = int(np.argmax(p["z_m"]))
         fig.add_trace(go.Scatter(x=[_u(p["x_m"][k], "distance", system)], y=[_u(p["z_m"][k], "length", system)],
                                  mode="markers", marker=dict(size=10, color=colour(i)), showlegend=False,
-                                 hovertemplate="peak %{y:.1f}<extra></extra>"))
+                                 hovertemplate="peak %{y:.1f} " + units.unit_label("length", system)
+                                               + "<extra></extra>"))
     fig.update_yaxes(rangemode="tozero")
+    _legend_below(fig, len(flights))
     return fig
 
 
@@ -77,6 +94,7 @@ def top_view(flights, system: str = "SI") -> go.Figure:
     fig.add_hline(y=0, line=dict(color="#777", width=1, dash="dot"))
     # right positive reads naturally with "right" drawn downward when looking downrange from above
     fig.update_yaxes(autorange="reversed")
+    _legend_below(fig, len(flights))
     return fig
 
 
@@ -100,6 +118,7 @@ def along_flight(flights, system: str = "SI") -> go.Figure:
     for r in (1, 2, 3):
         fig.update_xaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5", row=r, col=1)
         fig.update_yaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5", row=r, col=1)
+    _legend_below(fig, len(flights))
     return fig
 
 

@@ -2,7 +2,9 @@
 
 Each builder answers one question (its title says which) and starts from
 :func:`liftcore.figures.base_figure`. Geometry of the ideal flow is drawn in body radii (x/R, y/R)
-so the pictures read the same at any size; measured fields keep their own metres.
+so the pictures read the same at any size (the radius and stream speed are named in the display
+units); measured fields are drawn in the display length unit. Builders take core (SI) results and
+a unit system and convert at the edge through :mod:`liftcore.units`.
 """
 
 from __future__ import annotations
@@ -13,12 +15,25 @@ import numpy as np
 import plotly.graph_objects as go
 
 from liftcore import potential as pot
-from liftcore.figures import PALETTE, SEQUENTIAL, band, base_figure, colour
+from liftcore import units
+from liftcore.figures import PALETTE, SEQUENTIAL, band, base_figure
 
 BODY_FILL = "#9a9a9a"
 BODY_LINE = "#333333"
 #: Grid points per axis of the ideal-flow picture (enough for smooth lines, small to send).
 FLOW_GRID = 141
+
+
+def _u(value, kind: str, system: str):
+    return units.to_display(np.asarray(value, dtype=float), kind, system)
+
+
+def _unit(kind: str, system: str) -> str:
+    return units.unit_label(kind, system)
+
+
+def _num(value, kind: str, system: str, digits: int = 3) -> str:
+    return f"{float(units.to_display(value, kind, system)):.{digits}g} {_unit(kind, system)}"
 
 
 def _body(fig: go.Figure, cx: float, cy: float, r: float) -> None:
@@ -27,8 +42,8 @@ def _body(fig: go.Figure, cx: float, cy: float, r: float) -> None:
 
 
 def _equal_axes(fig: go.Figure, x_range, y_range) -> None:
-    fig.update_xaxes(range=list(x_range), constrain="domain")
-    fig.update_yaxes(range=list(y_range), scaleanchor="x", scaleratio=1, constrain="domain")
+    fig.update_xaxes(range=[float(a) for a in x_range], constrain="domain")
+    fig.update_yaxes(range=[float(a) for a in y_range], scaleanchor="x", scaleratio=1, constrain="domain")
 
 
 def flow_picture_half_width(res: pot.IdealCylinderResult) -> float:
@@ -37,8 +52,11 @@ def flow_picture_half_width(res: pot.IdealCylinderResult) -> float:
     return float(min(12.0, max(3.0, 1.35 * res.stagnation_distance_m / res.radius_m)))
 
 
-def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID) -> go.Figure:
-    """Streamlines (stream-function contours) over the local speed, body and stagnation points."""
+def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID, system: str = "SI") -> go.Figure:
+    """Streamlines (stream-function contours) over the local speed, body and stagnation points.
+
+    Axes in body radii; the radius and the stream speed are named in ``system``'s units, and the
+    stagnation points' hover gives their position in the display length unit."""
     r, v, g = res.radius_m, res.speed_m_s, res.circulation_m2_s
     half = flow_picture_half_width(res)
     s = np.linspace(-half, half, n)
@@ -46,11 +64,14 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID) -> go.F
     u, w = pot.velocity_field(xx, yy, v, r, g)
     speed = np.hypot(u, w) / v
     psi = pot.stream_function(xx, yy, v, r, g) / (v * r)
+    radius = _num(r, "length", system)
     fig = base_figure("Where the air goes: streamlines round the spinning cylinder",
-                      "x / R (stream flows left to right)", "y / R", height=600)
+                      f"x / R (R = {radius}; stream flows left to right)", f"y / R (R = {radius})",
+                      height=600)
     fig.add_trace(go.Heatmap(x=s, y=s, z=speed.astype(np.float32), colorscale=SEQUENTIAL, zmin=0.0,
                              zmax=3.0, name="speed",
-                             colorbar=dict(title=dict(text="speed /<br>free stream"), thickness=18),
+                             colorbar=dict(title=dict(text=f"speed /<br>free stream<br>({_num(v, 'speed', system)})"),
+                                           thickness=18),
                              hovertemplate="x/R %{x:.2f}, y/R %{y:.2f}<br>speed/free stream %{z:.2f}"
                                            "<extra></extra>"))
     finite = psi[np.isfinite(psi)]
@@ -72,10 +93,14 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID) -> go.F
     _body(fig, 0.0, 0.0, 1.0)
     px = [p[0] / r for p in res.stagnation_points_m]
     py = [p[1] / r for p in res.stagnation_points_m]
-    fig.add_trace(go.Scatter(x=px, y=py, mode="markers", name="stagnation point",
+    lu = _unit("length", system)
+    at = _u([list(p) for p in res.stagnation_points_m], "length", system)
+    fig.add_trace(go.Scatter(x=px, y=py, mode="markers", name="stagnation point", customdata=at,
                              marker=dict(symbol="x-thin", size=20, color=PALETTE[1],
                                          line=dict(width=5, color=PALETTE[1])),
-                             hovertemplate="stagnation point<br>x/R %{x:.2f}, y/R %{y:.2f}<extra></extra>"))
+                             hovertemplate=("stagnation point<br>x/R %{x:.2f}, y/R %{y:.2f}<br>"
+                                            f"x %{{customdata[0]:.3g}} {lu}, y %{{customdata[1]:.3g}} {lu}"
+                                            "<extra></extra>")))
     sign = 1.0 if res.lift_per_span_n_m >= 0 else -1.0
     if res.spin_rad_s != 0.0:
         spin_word = "clockwise" if res.spin_rad_s > 0 else "counter-clockwise"
@@ -174,18 +199,25 @@ def _stride(n: int, target: int) -> int:
     return max(1, int(math.ceil(n / target)))
 
 
-def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19) -> go.Figure:
-    """Speed colour map of the field with arrows, the body and the integration loops."""
+def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19, system: str = "SI") -> go.Figure:
+    """Speed colour map of the field with arrows, the body and the integration loops, drawn in
+    ``system``'s length and speed units."""
     from liftcore.fieldcirc import loop_family
 
+    lu, vu = _unit("length", system), _unit("speed", system)
+
+    def L(a):  # lengths in the display unit (a pure scale: arrows and loops keep their shape)
+        return _u(a, "length", system)
+
     sx, sy = _stride(field.x_m.size, max_cells), _stride(field.y_m.size, max_cells)
-    xs, ys = field.x_m[::sx], field.y_m[::sy]
-    speed = np.hypot(field.u_m_s, field.v_m_s)[::sx, ::sy].T
+    xs, ys = L(field.x_m[::sx]), L(field.y_m[::sy])
+    speed = _u(np.hypot(field.u_m_s, field.v_m_s)[::sx, ::sy].T, "speed", system)
     fig = base_figure(f"The velocity field and the loops ({len(res.loop_sizes_m)} integrated, 3 drawn)",
-                      "x [m]", "y [m]", height=640)
+                      f"x [{lu}]", f"y [{lu}]", height=640)
     fig.add_trace(go.Heatmap(x=xs, y=ys, z=speed.astype(np.float32), colorscale=SEQUENTIAL, name="speed",
-                             colorbar=dict(title=dict(text="speed<br>[m/s]"), thickness=18),
-                             hovertemplate="x %{x:.4g} m, y %{y:.4g} m<br>speed %{z:.3g} m/s<extra></extra>"))
+                             colorbar=dict(title=dict(text=f"speed<br>[{vu}]"), thickness=18),
+                             hovertemplate=f"x %{{x:.4g}} {lu}, y %{{y:.4g}} {lu}<br>speed %{{z:.3g}} {vu}"
+                                           "<extra></extra>"))
     ax, ay = _stride(field.x_m.size, arrows), _stride(field.y_m.size, arrows)
     gx, gy = np.meshgrid(field.x_m[::ax], field.y_m[::ay], indexing="ij")
     gu, gv = field.u_m_s[::ax, ::ay].ravel(), field.v_m_s[::ax, ::ay].ravel()
@@ -201,10 +233,10 @@ def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19) -> go.F
     nan = np.full(gx.size, np.nan)
     lx = np.column_stack([tailx, tipx, nan]).ravel()
     ly = np.column_stack([taily, tipy, nan]).ravel()
-    fig.add_trace(go.Scatter(x=lx, y=ly, mode="lines", line=dict(color="#ffffff", width=2),
+    fig.add_trace(go.Scatter(x=L(lx), y=L(ly), mode="lines", line=dict(color="#ffffff", width=2),
                              name="velocity", showlegend=False, hoverinfo="skip"))
     ang = 90.0 - np.degrees(np.arctan2(gv, gu))
-    fig.add_trace(go.Scatter(x=tipx, y=tipy, mode="markers", showlegend=False, hoverinfo="skip",
+    fig.add_trace(go.Scatter(x=L(tipx), y=L(tipy), mode="markers", showlegend=False, hoverinfo="skip",
                              marker=dict(symbol="triangle-up", size=10, angle=ang, color="#ffffff")))
     # three loops drawn (all are integrated): the smallest, the smallest counted, the largest
     loops = loop_family(res.loop_shape, res.body_centre_m, res.loop_sizes_m,
@@ -215,45 +247,52 @@ def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19) -> go.F
     picks = {}
     smallest = int(np.argmin(sizes))
     if not settled[smallest]:
-        picks[smallest] = (f"smallest loop {sizes[smallest]:.3g} m (not counted)", "#d0d0d0", "dot")
-    picks.setdefault(first_counted, (f"smallest counted loop {sizes[first_counted]:.3g} m", PALETTE[4], "dash"))
+        picks[smallest] = (f"smallest loop {_num(sizes[smallest], 'length', system)} (not counted)",
+                           "#d0d0d0", "dot")
+    picks.setdefault(first_counted, (f"smallest counted loop {_num(sizes[first_counted], 'length', system)}",
+                                     PALETTE[4], "dash"))
     largest = int(np.argmax(sizes))
-    picks.setdefault(largest, (f"largest loop {sizes[largest]:.3g} m", PALETTE[4], "solid"))
+    picks.setdefault(largest, (f"largest loop {_num(sizes[largest], 'length', system)}", PALETTE[4], "solid"))
     for k, (name, col, dash) in picks.items():
         ox, oy = loops[k].outline()
-        fig.add_trace(go.Scatter(x=ox, y=oy, mode="lines", hoverinfo="skip", name=name,
+        fig.add_trace(go.Scatter(x=L(ox), y=L(oy), mode="lines", hoverinfo="skip", name=name,
                                  line=dict(color=col, width=3.5, dash=dash)))
     bx, by = res.body_centre_m
-    _body(fig, bx, by, res.body_radius_m)
-    _equal_axes(fig, (x0, x1), (y0, y1))
+    _body(fig, float(L(bx)), float(L(by)), float(L(res.body_radius_m)))
+    _equal_axes(fig, L([x0, x1]), L([y0, y1]))
     fig.update_layout(legend=dict(orientation="h", y=-0.12, x=0.0), margin=dict(b=120))
     return fig
 
 
-def circulation_figure(res) -> go.Figure:
-    """Circulation against loop size, with the estimate and its loop-to-loop spread."""
-    sizes = np.asarray(res.loop_sizes_m)
-    gam = np.asarray(res.circulations_m2_s)
+def circulation_figure(res, system: str = "SI") -> go.Figure:
+    """Circulation against loop size, with the estimate and its loop-to-loop spread, in
+    ``system``'s length and circulation units."""
+    lu, cu = _unit("length", system), _unit("circulation", system)
+    sizes = _u(res.loop_sizes_m, "length", system)
+    gam = _u(res.circulations_m2_s, "circulation", system)
     settled = np.asarray(res.settled)
+    est = float(_u(res.circulation_m2_s, "circulation", system))
+    spread = float(_u(res.circulation_spread_m2_s, "circulation", system))
+    body_r = float(_u(res.body_radius_m, "length", system))
     fig = base_figure("Does the circulation settle as the loop grows?",
-                      "loop size (circle radius or rectangle half-height) [m]", "circulation Γ [m²/s]")
+                      f"loop size (circle radius or rectangle half-height) [{lu}]", f"circulation Γ [{cu}]")
     xs = sizes[settled]
-    band(fig, [xs.min(), xs.max()], [res.circulation_m2_s - res.circulation_spread_m2_s] * 2,
-         [res.circulation_m2_s + res.circulation_spread_m2_s] * 2, "loop-to-loop spread", PALETTE[4], 0.3)
-    fig.add_trace(go.Scatter(x=[xs.min(), xs.max()], y=[res.circulation_m2_s] * 2, mode="lines",
-                             name=f"estimate {res.circulation_m2_s:.4g} m²/s",
+    band(fig, [xs.min(), xs.max()], [est - spread] * 2, [est + spread] * 2, "loop-to-loop spread",
+         PALETTE[4], 0.3)
+    fig.add_trace(go.Scatter(x=[xs.min(), xs.max()], y=[est] * 2, mode="lines",
+                             name=f"estimate {est:.4g} {cu}",
                              line=dict(color=PALETTE[1], width=3, dash="dash")))
     fig.add_trace(go.Scatter(x=sizes, y=gam, mode="lines+markers", name="each loop",
                              line=dict(color=PALETTE[0], width=3),
                              marker=dict(size=11, color=[PALETTE[0] if s else "#ffffff" for s in settled],
                                          line=dict(width=2, color=PALETTE[0])),
-                             hovertemplate="size %{x:.4g} m<br>Γ %{y:.5g} m²/s<extra></extra>"))
-    fig.add_vline(x=res.body_radius_m, line=dict(color=BODY_LINE, width=2, dash="dot"))
-    fig.add_annotation(x=res.body_radius_m, yref="paper", y=0.02, xanchor="left", showarrow=False,
+                             hovertemplate=f"size %{{x:.4g}} {lu}<br>Γ %{{y:.5g}} {cu}<extra></extra>"))
+    fig.add_vline(x=body_r, line=dict(color=BODY_LINE, width=2, dash="dot"))
+    fig.add_annotation(x=body_r, yref="paper", y=0.02, xanchor="left", showarrow=False,
                        text=" body radius", font=dict(size=14, color=BODY_LINE))
-    lo = min(gam.min(), res.circulation_m2_s - res.circulation_spread_m2_s)
-    hi = max(gam.max(), res.circulation_m2_s + res.circulation_spread_m2_s)
-    pad = max(0.05 * abs(res.circulation_m2_s), 0.5 * (hi - lo), 1e-9)
+    lo = min(gam.min(), est - spread)
+    hi = max(gam.max(), est + spread)
+    pad = max(0.05 * abs(est), 0.5 * (hi - lo), 1e-9)
     fig.update_yaxes(range=[lo - pad, hi + pad])
     fig.update_xaxes(range=[0.0, float(sizes.max()) * 1.05])
     fig.update_layout(legend=dict(orientation="h", y=-0.28, x=0.0), margin=dict(b=130))

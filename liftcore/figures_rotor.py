@@ -130,7 +130,8 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
         r = _disp(getattr(chosen.sweep, attr), kind, system)
         fig.add_trace(go.Scatterpolar(r=r, theta=theta, mode="lines", name=chosen.coefficients.label,
                                       line=dict(color=colour(0), width=LINE_WIDTH), showlegend=col == 1,
-                                      subplot=polar, hovertemplate="true wind %{theta:.0f}°<br>%{r:,.1f}<extra></extra>"))
+                                      subplot=polar, hovertemplate="true wind %{theta:.0f}°<br>%{r:,.1f} "
+                                      + _label(kind, system) + "<extra></extra>"))
         now = float(_disp(getattr(detail.operation, attr), kind, system))
         fig.add_trace(go.Scatterpolar(r=[now], theta=[detail.true_wind_angle_deg], mode="markers",
                                       name="Current true wind angle", showlegend=col == 1, subplot=polar,

@@ -16,6 +16,7 @@ import io
 from dataclasses import dataclass
 from functools import lru_cache
 
+import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
@@ -31,9 +32,13 @@ MAX_REPORT_TABLE_ROWS = 30
 #: Chart size in the report: fits an A4 or Letter page in portrait with 15 mm margins. [px]
 REPORT_FIG_WIDTH = 680
 REPORT_FIG_HEIGHT = 420
+#: Taller charts (maps, polar pairs, legends under the plot) keep their own height up to this. [px]
+REPORT_FIG_MAX_HEIGHT = 760
 #: Trace types that can be laid over each other from several options.
 OVERLAY_TYPES = ("scatter", "scattergl", "scatter3d", "scatterpolar", "bar")
 DASHES = ("solid", "dash", "dot", "dashdot", "longdash")
+#: Room for one more legend line under an overlaid chart. [px]
+LEGEND_LINE_PX = 28
 
 
 @dataclass(frozen=True)
@@ -174,6 +179,13 @@ def figures_for(kind: str, result: StudyResult, system: str = "SI") -> tuple:
     return tuple(result.figures)
 
 
+def tables_for(kind: str, result: StudyResult, system: str = "SI") -> dict:
+    """The study's tables as people read them: its optional ``tables_in_units(result, system)``
+    when it has one (converted, the unit in each column name), else the result's core-unit tables."""
+    make = getattr(study(kind), "tables_in_units", None)
+    return dict(make(result, system)) if callable(make) else dict(result.tables)
+
+
 def _key_figure(kind: str, result: StudyResult, system: str = "SI"):
     """The study's key chart for comparisons: ``COMPARE_FIGURE`` (index or title; ``None`` for
     none) when the study sets it, else its first flat chart that can be overlaid, else its first."""
@@ -230,10 +242,15 @@ def overlay_figure(runs: list[Run], system: str = "SI"):
                          if s.xref == "paper" and s.yref == "paper"]
     for i, (r, (_, fig)) in enumerate(zip(runs, picked)):
         colour = PALETTE[i % len(PALETTE)]
+        # traces the chart keeps out of its legend (peak markers, ...) stay out, unless the option
+        # would otherwise have no legend entry at all
+        listed = [t.showlegend is not False and bool(t.name) for t in fig.data]
+        if not any(listed) and listed:
+            listed[0] = True
         for j, t in enumerate(fig.data):
             t = go.Figure(data=[t]).data[0]  # a detached copy
             name = f"{r.name} · {t.name}" if t.name else r.name
-            t.update(name=name, legendgroup=r.name, showlegend=True)
+            t.update(name=name, legendgroup=r.name, showlegend=listed[j])
             fill = getattr(t, "fill", None)
             if t.type == "bar":
                 t.update(marker=dict(color=colour))
@@ -244,7 +261,23 @@ def overlay_figure(runs: list[Run], system: str = "SI"):
             out.add_trace(t)
     if any(t.type == "bar" for t in out.data):
         out.update_layout(barmode="group")
+    # a legend under the plot grows by a line for each entry the other options add
+    legend = out.layout.legend
+    if legend.y is not None and legend.y < 0 and legend.orientation in (None, "v"):
+        before = sum(1 for t in fig0.data if t.showlegend is not False and t.name)
+        add = LEGEND_LINE_PX * max(0, sum(1 for t in out.data if t.showlegend) - before)
+        out.update_layout(height=(out.layout.height or REPORT_FIG_HEIGHT) + add,
+                          margin=dict(b=(out.layout.margin.b or 0) + add))
+    # a range fitted to the first option's data would cut the others off: let every axis fit all
+    out.for_each_xaxis(_fit_all_options)
+    out.for_each_yaxis(_fit_all_options)
+    out.update_polars(radialaxis_range=None, radialaxis_autorange=True)
     return layout_title, out
+
+
+def _fit_all_options(axis) -> None:
+    if axis.range is not None and axis.autorange != "reversed":
+        axis.update(range=None, autorange=True)
 
 
 # ----------------------------------------------------------------------------- HTML pieces
@@ -276,7 +309,6 @@ tr.differs td { background: #fff3c4; font-weight: bold; }
 .mark { font-weight: bold; }
 .warnings li { margin-bottom: 4px; }
 .warnings .sev-invalid { color: #8b0000; font-weight: bold; }
-table.dataframe td { text-align: right; font-variant-numeric: tabular-nums; }
 .caution { border: 2px solid #D55E00; border-radius: 6px; padding: 8px 12px; margin: 8px 0;
            break-inside: avoid; page-break-inside: avoid; }
 figure.chart { margin: 10px 0 18px; break-inside: avoid; page-break-inside: avoid; }
@@ -307,7 +339,8 @@ def _e(x) -> str:
 
 def _figure_html(fig, div_id: str) -> str:
     f = go.Figure(fig)
-    f.update_layout(width=REPORT_FIG_WIDTH, height=REPORT_FIG_HEIGHT, autosize=False,
+    height = min(max(fig.layout.height or REPORT_FIG_HEIGHT, REPORT_FIG_HEIGHT), REPORT_FIG_MAX_HEIGHT)
+    f.update_layout(width=REPORT_FIG_WIDTH, height=height, autosize=False,
                     paper_bgcolor="white", plot_bgcolor="white")
     return f.to_html(full_html=False, include_plotlyjs=False, include_mathjax=False, div_id=div_id,
                      config={"displaylogo": False, "responsive": False, "plotlyServerURL": ""})
@@ -368,13 +401,33 @@ def _inputs_table(kind: str, values: dict, system: str) -> str:
             f"<tbody>{''.join(rows)}</tbody></table><p class=\"meta\">• changed from the default</p>")
 
 
+def _table_title(name: str) -> str:
+    """``wind_angle_sweep`` -> ``Wind angle sweep`` (the CSV keeps the name as it is)."""
+    text = name.replace("_", " ")
+    return text[:1].upper() + text[1:]
+
+
 def _df_html(name: str, df: pd.DataFrame) -> str:
     if len(df) > MAX_REPORT_TABLE_ROWS:
-        return (f"<h3>{_e(name)}</h3><p>{len(df)} rows × {len(df.columns)} columns: in the CSV file "
+        return (f"<h3>{_e(_table_title(name))}</h3><p>{len(df)} rows × {len(df.columns)} columns: in the CSV file "
                 "that comes with this report.</p>")
-    body = df.to_html(index=False, escape=True, border=0, na_rep="–",
-                      float_format=lambda x: format_number(x, 4))
-    return f"<h3>{_e(name)}</h3>{body}"
+    numeric = [pd.api.types.is_numeric_dtype(df[c]) and not pd.api.types.is_bool_dtype(df[c])
+               for c in df.columns]
+
+    def cell(v, num: bool) -> str:
+        if num:
+            text = "–" if v is None or v != v else format_number(float(v), 4)
+            return f"<td class=\"num\">{_e(text)}</td>"
+        if isinstance(v, (bool, np.bool_)):
+            return f"<td>{'yes' if v else 'no'}</td>"
+        return f"<td>{_e('–' if v is None or v != v else v)}</td>"
+
+    head = "".join(f"<th class=\"num\">{_e(c)}</th>" if n else f"<th>{_e(c)}</th>"
+                   for c, n in zip(df.columns, numeric))
+    rows = "".join("<tr>" + "".join(cell(v, n) for v, n in zip(row, numeric)) + "</tr>"
+                   for row in df.itertuples(index=False, name=None))
+    # numbers right-aligned (class num), words left-aligned
+    return f"<h3>{_e(_table_title(name))}</h3><table><thead><tr>{head}</tr></thead><tbody>{rows}</tbody></table>"
 
 
 def _sources_cautions(kind: str) -> str:
@@ -393,7 +446,7 @@ def scenario_report(s: Scenario, result: StudyResult, unit_system: str | None = 
     cautions, sources = _sources_cautions(s.kind)
     figs = "".join(f"<figure class=\"chart\">{_figure_html(fig, f'fig{i}')}<figcaption>{_e(t)}</figcaption></figure>"
                    for i, (t, fig) in enumerate(figures_for(s.kind, result, system)))
-    tables = "".join(_df_html(n, df) for n, df in result.tables.items())
+    tables = "".join(_df_html(n, df) for n, df in tables_for(s.kind, result, system).items())
     body = [
         f"<header><h1>{_e(title)}{_invented_badge(s.title, s.note)}</h1>",
         _meta_line(system, f"Study: {mod.TITLE}"),

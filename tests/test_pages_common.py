@@ -246,6 +246,16 @@ def test_bad_or_stale_links_fall_back_to_defaults_with_a_message(params, message
     assert metrics(at) == shown("demo", demo_study.INPUTS.defaults(), "SI")
 
 
+def test_a_link_with_only_units_says_every_input_is_at_its_default():
+    at = app()
+    at.query_params["v"] = "1"
+    at.query_params["units"] = "imperial"
+    at.run()
+    assert not at.exception
+    assert "Opened from a share link (every input at its default)." in messages(at)
+    assert at.session_state["unit_system"] == "imperial"
+
+
 # ----------------------------------------------------------------------------- reports
 def test_report_and_csv_downloads_match_the_page(downloads):
     at = app()
@@ -520,3 +530,47 @@ def test_an_option_opens_on_its_page():
 def test_share_link_root_drops_the_current_page(url, root):
     from views import PAGES, common
     assert common._app_root(url, {u for _, _, u, _ in PAGES}) == root
+
+
+# ----------------------------------------------------------------------------- shared widget rules
+@pytest.mark.parametrize("page_file, kind", [("flow.py", "flow"), ("voyage.py", "voyage"), ("flight.py", "flight")])
+def test_air_inputs_follow_the_air_mode_on_every_page(page_file, kind):
+    at = AppTest.from_file(str(ROOT / "views" / page_file), default_timeout=TIMEOUT)
+    if kind == "voyage":
+        at.session_state["voyage:sweep"] = False
+    at.run()
+    key = lambda k: f"w:{kind}:{k}:SI"  # noqa: E731
+    shown = lambda: {w.key for w in at.number_input}  # noqa: E731
+    assert key("altitude_m") in shown() and not {key("temperature_k"), key("pressure_pa")} & shown()
+    at.selectbox(key=key("air_mode")).set_value("measured").run()
+    assert not at.exception, at.exception
+    assert {key("temperature_k"), key("pressure_pa")} <= shown() and key("altitude_m") not in shown()
+
+
+def test_air_rules_with_a_precondition():
+    from views.common import AIR_SHOW_IF, air_show_if
+
+    isa = {"air_mode": "isa", "fluid": "air"}
+    measured = {"air_mode": "measured", "fluid": "air"}
+    assert AIR_SHOW_IF["altitude_m"](isa) and not AIR_SHOW_IF["altitude_m"](measured)
+    assert AIR_SHOW_IF["pressure_pa"](measured) and not AIR_SHOW_IF["temperature_k"](isa)
+    rules = air_show_if(when=lambda v: v["fluid"] == "air")
+    assert rules["temperature_k"](measured) and rules["air_mode"](isa)
+    water = {"air_mode": "measured", "fluid": "water"}
+    assert not any(rules[k](water) for k in ("air_mode", "altitude_m", "temperature_k", "pressure_pa",
+                                             "relative_humidity_pct"))
+    assert air_show_if().keys() == AIR_SHOW_IF.keys()
+
+
+def test_number_steps_follow_the_default_in_the_display_unit():
+    from liftcore.inputs import number
+    from views.common import _auto_step
+
+    pressure = number("pressure_pa", "Pressure", "pressure", 101325.0)
+    # a step of about a hundredth of the default, as a power of ten: 1013.25 hPa -> 10 hPa,
+    # 29.92 inHg -> 0.1 inHg (1 inHg = 33.8639 hPa, NIST SP 811 appendix B)
+    assert _auto_step(pressure, "SI") == 10.0 and _auto_step(pressure, "imperial") == 0.1
+    speed = number("speed_m_s", "Speed", "speed", 8.0)
+    assert _auto_step(speed, "SI") == 0.1 and _auto_step(speed, "marine") == 0.1  # 8 m/s, 15.55 kn
+    assert _auto_step(number("c", "Charnock", "ratio", 0.011), "SI") == 0.0001
+    assert _auto_step(number("h_m", "Depth", "length", 0.0), "imperial") == 1.0

@@ -4,9 +4,11 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from numpy.testing import assert_allclose
 from streamlit.testing.v1 import AppTest
 
 from liftcore import ballflight as bf
+from liftcore import units
 from liftcore.studies import flight as study
 from liftcore.studies import run_study
 
@@ -74,7 +76,51 @@ def test_imperial_units_and_second_flight():
     assert metric(at, "Carry") == r.headline("carry_m").text("imperial")
     assert metric(at, "Carry").endswith("yd")
     table = at.dataframe[0].value
-    assert list(table["Flight"]) == ["This flight", "At 1600 m altitude"]
+    # the second flight is named in the units shown (1600 m, the default other altitude, in feet)
+    feet = units.to_display(1600.0, "altitude", "imperial")
+    assert list(table["Flight"]) == ["This flight", f"At {feet:.0f} ft altitude"]
+    second = r.detail.flights[1]
+    assert_allclose(table["Carry [yd]"][1], units.to_display(second.carry_m, "distance", "imperial"), atol=0.006)
+    side = chart(at, "Side view: height against distance")
+    assert side["layout"]["xaxis"]["title"]["text"] == "Downrange [yd]"
+    assert side["data"][2]["name"] == f"At {feet:.0f} ft altitude"
+
+
+def chart(at, title: str) -> dict:
+    import json
+
+    specs = [json.loads(c.proto.spec) for c in at.get("plotly_chart")]
+    for s in specs:
+        if s["layout"]["title"]["text"] == title:
+            return s
+    raise AssertionError(f"no chart {title!r}")
+
+
+def test_overlay_button_pins_flights_to_the_charts_in_the_units_shown():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.session_state["unit_system"] = "imperial"
+    at.run()
+    button = at.button(key="flight_overlay")
+    assert button.label == "Overlay this flight on the charts"
+    assert "Keep as option" in button.help and "Compare options" in button.help
+    button.click().run()
+    at.number_input(key="w:flight:speed_m_s:imperial").set_value(80.0).run()
+    assert not at.exception, at.exception
+    table = at.dataframe[0].value
+    assert list(table["Flight"])[0] == "This flight"
+    assert list(table["Flight"])[1].startswith("Overlay 1: Baseball, 100 mph at 28°")
+    # the pinned flight keeps the launch it had (100 mph, the default); the current one is 80 mph
+    pinned = run_study("flight", {"dispersion_n": 0})
+    now = run_study("flight", {"dispersion_n": 0, "speed_m_s": float(units.from_display(80.0, "ball_speed", "imperial"))})
+    assert_allclose(table["Carry [yd]"], [units.to_display(now.headline("carry_m").value, "distance", "imperial"),
+                                          units.to_display(pinned.headline("carry_m").value, "distance", "imperial")],
+                    atol=0.006)
+    assert len(chart(at, "Side view: height against distance")["data"]) == 4  # two paths, two peaks
+    # the overlay is not a kept option of the Compare page
+    assert at.session_state["_lc:options"] == []
+    at.button(key="flight_overlay_clear").click().run()
+    assert not at.exception
+    assert not [d for d in at.dataframe if "Flight" in d.value.columns]  # only this flight: no table
 
 
 def test_fit_tab_recovers_the_demo_coefficients():

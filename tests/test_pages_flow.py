@@ -57,7 +57,7 @@ def test_flow_page_spin_ratio_matches_core():
     core = pot.ideal_spinning_cylinder(0.3, 12.0, pot.spin_rate_from_ratio(2.5, 0.3, 12.0),
                                        air.density_kg_m3, air.speed_of_sound_m_s)
     m = metrics(at)
-    shown_close(m["Ideal lift per metre of span ρVΓ"], core.lift_per_span_n_m)
+    shown_close(m["Ideal lift per unit span ρVΓ"], core.lift_per_span_n_m)
     shown_close(m["Circulation Γ = 2πR·ωR"], core.circulation_m2_s)
     shown_close(m["Lift coefficient CL = 2π SR"], core.lift_coefficient)
     shown_close(m["CL from the surface pressure"], core.lift_coefficient_from_pressure, 6)
@@ -82,7 +82,7 @@ def test_flow_page_rpm_mode_and_measured_air():
     m = metrics(at)
     shown_close(m["Spin ratio ωR/V"], core.spin_ratio, 3)
     shown_close(m["Air density"], air.density_kg_m3)
-    shown_close(m["Ideal lift per metre of span ρVΓ"], core.lift_per_span_n_m)
+    shown_close(m["Ideal lift per unit span ρVΓ"], core.lift_per_span_n_m)
 
 
 def test_flow_page_imperial_units_show_same_quantity():
@@ -96,8 +96,8 @@ def test_flow_page_imperial_units_show_same_quantity():
     core = run_study("flow", {})
     m = metrics(at)
     lift = units.to_display(core.detail.lift_per_span_n_m, "force_per_span", "imperial")
-    assert m["Ideal lift per metre of span ρVΓ"].endswith("lbf/ft")
-    shown_close(m["Ideal lift per metre of span ρVΓ"], lift)
+    assert m["Ideal lift per unit span ρVΓ"].endswith("lbf/ft")
+    shown_close(m["Ideal lift per unit span ρVΓ"], lift)
 
 
 # ----------------------------------------------------------------------------- field page
@@ -117,7 +117,7 @@ def test_field_page_smoke_uses_invented_demo():
     core = core_demo()
     m = metrics(at)
     shown_close(m["Circulation Γ (outer loops)"], core.circulation_m2_s)
-    shown_close(m["Lift per metre of span ρVΓ"], core.lift_per_span_n_m)
+    shown_close(m["Lift per unit span ρVΓ"], core.lift_per_span_n_m)
     shown_close(m["Free-stream speed"], core.free_stream_speed_m_s)
 
 
@@ -134,7 +134,7 @@ def test_field_page_rectangles_and_given_speed_match_core():
                      loop_sizes_m=np.linspace(0.08, 0.28, 9))
     m = metrics(at)
     shown_close(m["Circulation Γ (outer loops)"], core.circulation_m2_s)
-    shown_close(m["Lift per metre of span ρVΓ"], core.lift_per_span_n_m)
+    shown_close(m["Lift per unit span ρVΓ"], core.lift_per_span_n_m)
 
 
 def test_field_page_refuses_loop_outside_grid_and_keeps_inputs():
@@ -165,7 +165,7 @@ def test_field_page_upload_good_and_bad_files():
     shown_close(m["Circulation Γ (outer loops)"], -1.3, 2)
     core = fc.circulation_from_field(fc.field_from_table(fc.read_field_csv(csv)), (0.1, 0.0), 0.1,
                                      np.linspace(0.3, 0.8, 12), air_state(0.0).density_kg_m3)
-    shown_close(m["Lift per metre of span ρVΓ"], core.lift_per_span_n_m)
+    shown_close(m["Lift per unit span ρVΓ"], core.lift_per_span_n_m)
 
     lines = csv.decode().splitlines()
     broken = "\n".join(lines + [lines[5]]).encode()  # a duplicate point
@@ -188,3 +188,55 @@ def test_our_scenarios_load_and_run(name):
     if s.kind == "flow":
         # analytic: Kutta-Joukowski from the pressure integral
         assert_allclose(result.detail.lift_coefficient_from_pressure, result.detail.lift_coefficient, rtol=1e-9)
+
+
+# ----------------------------------------------------------------------------- units in charts and tables
+def chart_specs(at) -> list[dict]:
+    import json
+
+    return [json.loads(c.proto.spec) for c in at.get("plotly_chart")]
+
+
+def test_flow_page_in_imperial_converts_the_surface_table_and_names_the_radius_in_feet():
+    at = AppTest.from_file(FLOW, default_timeout=TIMEOUT)
+    at.session_state["unit_system"] = "imperial"
+    at.run()
+    assert not at.exception
+    table = at.dataframe[0].value
+    core = run_study("flow", {}).tables["surface"]
+    assert_allclose(table["surface speed [mph]"],
+                    units.to_display(core["surface_speed_m_s"].to_numpy(), "speed", "imperial"))
+    assert_allclose(table["pressure coefficient"], core["pressure_coefficient"])  # no unit: unchanged
+    stream = chart_specs(at)[0]
+    feet = units.to_display(0.5, "length", "imperial")
+    assert f"R = {feet:.3g} ft" in stream["layout"]["xaxis"]["title"]["text"]
+
+
+def test_field_page_in_imperial_converts_the_loops_table_and_chart_axes():
+    at = AppTest.from_file(FIELD, default_timeout=TIMEOUT)
+    at.session_state["unit_system"] = "imperial"
+    at.run()
+    assert not at.exception
+    core = core_demo()
+    table = at.dataframe[0].value
+    assert_allclose(table["loop size [ft]"], units.to_display(np.asarray(core.loop_sizes_m), "length", "imperial"))
+    assert_allclose(table["circulation [ft²/s]"],
+                    units.to_display(np.asarray(core.circulations_m2_s), "circulation", "imperial"))
+    specs = chart_specs(at)
+    assert specs[0]["layout"]["xaxis"]["title"]["text"] == "x [ft]"
+    assert specs[1]["layout"]["yaxis"]["title"]["text"] == "circulation Γ [ft²/s]"
+
+
+def test_field_page_shows_air_inputs_only_when_the_fluid_is_air():
+    at = AppTest.from_file(FIELD, default_timeout=TIMEOUT).run()
+    keys = lambda: {w.key for w in at.number_input} | {w.key for w in at.selectbox}  # noqa: E731
+    assert {"w:field:air_mode:SI", "w:field:altitude_m:SI"} <= keys()
+    at.selectbox(key="w:field:air_mode:SI").set_value("measured").run()
+    assert {"w:field:temperature_k:SI", "w:field:pressure_pa:SI"} <= keys()
+    assert "w:field:altitude_m:SI" not in keys()
+    at.selectbox(key="w:field:density_mode:SI").set_value("given").run()
+    assert not at.exception
+    shown = keys()
+    assert "w:field:density_kg_m3:SI" in shown
+    assert not shown & {f"w:field:{k}:SI" for k in ("air_mode", "altitude_m", "temperature_k", "pressure_pa",
+                                                     "relative_humidity_pct")}

@@ -132,3 +132,34 @@ def test_limit_warning_sits_beside_its_number(page):
     setup = rotor.setup_from_inputs({"max_motor_power_w": 40_000.0})
     op = rotor.best_operation(setup, 12 * KNOT_M_S, 20 * KNOT_M_S, math.radians(90))
     assert metric(page, "Spin power (shaft)") == f"{format_number(op.spin_power_w / 1000)} kW"
+
+
+def test_imperial_tables_and_charts_are_converted(page):
+    import json
+
+    page.session_state["unit_system"] = "imperial"
+    page.run()
+    assert not page.exception
+    result = study.run(study.INPUTS.validate({}))
+    tables = {tuple(d.value.columns): d.value for d in page.dataframe}
+    sweep = next(t for cols, t in tables.items() if "true wind angle [°]" in cols)
+    core = result.tables["wind_angle_sweep"]
+    assert_allclose(sweep["thrust [kip]"], units.to_display(core["thrust_n"].to_numpy(), "large_force", "imperial"))
+    assert_allclose(sweep["net power gain [hp]"], units.to_display(core["net_power_w"].to_numpy(), "power", "imperial"))
+    span = next(t for cols, t in tables.items() if "height [ft]" in cols)
+    assert_allclose(span["height [ft]"], units.to_display(result.detail.span.height_m, "length", "imperial"))
+    op = next(t for cols, t in tables.items() if cols == ("quantity", "value", "unit")).set_index("quantity")
+    assert op.loc["heeling moment", "unit"] == "kip·ft"
+    assert op.loc["heeling moment", "value"] == pytest.approx(
+        units.to_display(result.detail.operation.at(())["heeling_moment_nm"], "moment", "imperial"))
+    specs = [json.loads(c.proto.spec) for c in page.get("plotly_chart")]
+    span_chart = next(s for s in specs if "rotor height" in s["layout"]["title"]["text"])
+    assert span_chart["layout"]["yaxis"]["title"]["text"] == "Height above the waterline [ft]"
+
+
+def test_measured_air_hides_the_altitude(page):
+    page.selectbox(key=key("air_mode")).set_value("measured")
+    page.run()
+    assert not page.exception
+    shown = {w.key for w in page.number_input}
+    assert {key("temperature_k"), key("pressure_pa")} <= shown and key("altitude_m") not in shown

@@ -78,3 +78,25 @@ def test_bad_speed_profile_shows_one_error_and_keeps_the_input():
     assert not at.error
     assert shown(at) == expected({"speed_profile_kn": "12:0.5, 10:0.5", "sweep": False})
 
+
+
+def test_imperial_tables_are_converted_with_the_unit_in_the_column_name():
+    import numpy as np
+    from numpy.testing import assert_allclose
+
+    from liftcore import units
+
+    at = page(**{"unit_system": "imperial", "voyage:sweep": False}).run()
+    assert not at.exception
+    r = run_study("voyage", {"sweep": False})
+    tables = {tuple(d.value.columns): d.value for d in at.dataframe}
+    heat = next(t for cols, t in tables.items() if "true wind speed [mph]" in cols)
+    core = r.tables["gain_by_condition"]
+    assert_allclose(heat["true wind speed [mph]"], units.to_display(core["true_wind_speed_m_s"].to_numpy(),
+                                                                    "wind_speed", "imperial"))
+    assert_allclose(heat["net power [hp]"], units.to_display(core["net_power_w"].to_numpy(), "power", "imperial"))
+    assert_allclose(heat["share of time [%]"], 100.0 * np.asarray(core["share_of_time"]))
+    summary = tables[("quantity", "value", "unit")].set_index("quantity")
+    assert summary.loc["CO₂ avoided per year", "unit"] == "US ton"
+    assert summary.loc["CO₂ avoided per year", "value"] == pytest.approx(
+        units.to_display(r.detail.summary.annual_co2_avoided_kg, "fuel_mass", "imperial"))

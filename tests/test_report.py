@@ -253,3 +253,51 @@ def test_a_study_can_draw_its_charts_in_the_chosen_units(monkeypatch):
     assert title.startswith("Lift against wind speed [mph]")
     # 1 mph = 0.44704 m/s exactly (NIST SP 811, appendix B)
     assert_allclose(fig.data[0].x[-1], 40.0 / 0.44704, rtol=1e-12)
+
+
+def test_a_study_can_show_its_tables_in_the_chosen_units(monkeypatch):
+    from liftcore import units
+
+    def tables_in_units(result, system):
+        t = result.tables["lift curve"]
+        return {"lift curve": t.assign(wind_speed_m_s=units.to_display(t["wind_speed_m_s"].to_numpy(), "wind_speed", system))
+                .rename(columns={"wind_speed_m_s": f"wind speed [{units.unit_label('wind_speed', system)}]"})}
+    monkeypatch.setattr(demo_study, "tables_in_units", tables_in_units, raising=False)
+    s = scenario()
+    res = run_study("demo", s.inputs)
+    html = rp.scenario_report(s, res, "marine")
+    assert "wind speed [kn]" in html and "wind_speed_m_s" not in html
+    # the CSV beside the report keeps the core-unit columns
+    assert "wind_speed_m_s" in rp.scenario_csv(s, res, "marine")
+
+
+def test_real_study_report_and_overlay_in_imperial_units():
+    from liftcore import units
+    from liftcore.studies import format_number
+
+    s = sc.Scenario("field", {}, title="Invented field check")
+    res = run_study("field", {})
+    html = rp.scenario_report(s, res, "imperial")
+    gamma = units.to_display(res.detail.circulation.circulations_m2_s[0], "circulation", "imperial")
+    assert "circulation [ft²/s]" in html and f"<td class=\"num\">{format_number(gamma, 4)}</td>" in html
+    first = units.to_display(res.detail.circulation.loop_sizes_m[0], "length", "imperial")
+    assert f"<td>circle, radius {first:.4g} ft</td>" in html  # words left-aligned, numbers right
+    assert '"text":"x [ft]"' in html  # the map's axis, in the chart's JSON
+    flights = [rp.Run(n, "flight", v, run_study("flight", v)) for n, v in
+               (("Low", {"elevation_deg": 20.0, "dispersion_n": 0}), ("High", {"elevation_deg": 35.0, "dispersion_n": 0}))]
+    title, fig = rp.overlay_figure(flights, "imperial")
+    assert title.startswith("Side view") and fig.layout.xaxis.title.text == "Downrange [yd]"
+    path = flights[1].result.detail.flights[0].path
+    high = [t for t in fig.data if t.name == "High · This flight"][0]
+    assert_allclose(high.x, units.to_display(path["x_m"], "distance", "imperial"))
+
+
+def test_overlaid_options_are_not_cut_off_at_the_first_options_range():
+    # the circulation chart fits its x axis to the loops of its own run (0 to 1.05 x largest loop)
+    runs = [rp.Run(n, "field", v, run_study("field", v)) for n, v in
+            (("Small loops", {"loop_max_m": 0.18}), ("Large loops", {"loop_max_m": 0.28}))]
+    single = rp._key_figure("field", runs[0].result, "SI")[1]
+    assert single.layout.xaxis.range[1] == pytest.approx(0.18 * 1.05)
+    _, fig = rp.overlay_figure(runs, "SI")
+    assert fig.layout.xaxis.range is None and fig.layout.xaxis.autorange is True
+    assert max(max(t.x) for t in fig.data if t.name == "Large loops · each loop") == pytest.approx(0.28)

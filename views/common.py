@@ -15,6 +15,7 @@ reads the kept options with :func:`kept_options`.
 from __future__ import annotations
 
 import hashlib
+import math
 import threading
 import urllib.parse
 from collections import OrderedDict
@@ -22,7 +23,7 @@ from collections import OrderedDict
 import pandas as pd
 import streamlit as st
 
-from liftcore import units
+from liftcore import studies, units
 from liftcore.errors import InputError
 from liftcore.inputs import Field, InputSpec
 from liftcore.studies import StudyResult, format_number, run_study, study
@@ -127,7 +128,7 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
                                help=f.help or None)
             st.session_state[skey] = int(v)
         else:
-            step = f.step if f.step is not None else _auto_step(st.session_state[wkey])
+            step = f.step if f.step is not None else _auto_step(f, system)
             v = c.number_input(text, min_value=lo, max_value=hi, step=step, key=wkey,
                                help=f.help or None, format=NUMBER_FORMAT)
             # a widget still showing its seed keeps the exact core value (no drift on unit switches)
@@ -168,22 +169,35 @@ def _tidy(x: float) -> float:
 NUMBER_FORMAT = "%.7g"
 
 
-def _auto_step(x: float) -> float:
-    x = abs(float(x))
-    if x == 0:
-        return 0.1
-    mag = 10 ** (len(str(int(x))) - 2) if x >= 10 else (1.0 if x >= 1 else 0.01)
-    return float(max(mag, 0.001))
+def _auto_step(f: Field, system: str) -> float:
+    """The +/- step of a number input without its own step: the power of ten nearest a hundredth
+    of the field's default in the display unit (1013.25 hPa -> 10, 15.55 kn -> 0.1, 0.011 ->
+    0.0001), or 1 for a default of 0. Taken from the default, not the value shown, so the step
+    does not shrink as a value is stepped down toward zero."""
+    d = abs(float(units.to_display(f.default, f.quantity, system)))
+    if d == 0 or not math.isfinite(d):
+        return 1.0
+    return float(10.0 ** round(math.log10(d / 100.0)))
 
 
-def _auto_format(step: float) -> str:
-    if step >= 1:
-        return "%.0f" if step == int(step) else "%.2f"
-    if step >= 0.1:
-        return "%.2f"
-    if step >= 0.01:
-        return "%.3f"
-    return "%.4g"
+#: Which air-state inputs to show (``render_inputs(show_if=...)``): the altitude for the standard
+#: atmosphere, temperature and pressure for measured air. Pages add their own rules to a copy.
+AIR_SHOW_IF = {
+    "altitude_m": lambda v: v["air_mode"] == "isa",
+    "temperature_k": lambda v: v["air_mode"] == "measured",
+    "pressure_pa": lambda v: v["air_mode"] == "measured",
+}
+
+
+def air_show_if(when=None) -> dict:
+    """:data:`AIR_SHOW_IF`, or, with a precondition ``when(values)`` (e.g. the field page's "the
+    fluid is air"), every air input (the mode and humidity too) shown only when it holds."""
+    if when is None:
+        return dict(AIR_SHOW_IF)
+    rules = {key: (lambda v, rule=rule: bool(when(v)) and rule(v)) for key, rule in AIR_SHOW_IF.items()}
+    rules["air_mode"] = when
+    rules["relative_humidity_pct"] = when
+    return rules
 
 
 def render_inputs(spec: InputSpec, container=None, skip=(), show_if=None) -> dict:
@@ -312,15 +326,23 @@ def show_sources_and_cautions(study) -> None:
 
 def table_in_units(df: pd.DataFrame, quantities: dict) -> pd.DataFrame:
     """Convert the columns named in ``quantities`` (column -> kind) to the current unit system,
-    renaming them with the display unit."""
+    renaming them with the display unit (``surface_speed_m_s`` -> ``surface speed [mph]``)."""
+    return studies.table_in_units(df, quantities, unit_system())
+
+
+def study_tables(mod, result: StudyResult) -> dict:
+    """The study's tables as people should read them: its ``tables_in_units`` hook in the current
+    unit system, else the core-unit tables."""
+    make = getattr(mod, "tables_in_units", None)
+    return make(result, unit_system()) if callable(make) else dict(result.tables)
+
+
+def study_figures(mod, result: StudyResult) -> dict:
+    """The study's charts (title -> figure) in the current unit system, through its
+    ``figures_in_units`` hook when it has one."""
+    make = getattr(mod, "figures_in_units", None)
     system = unit_system()
-    out = df.copy()
-    ren = {}
-    for col, kind in quantities.items():
-        if col in out:
-            out[col] = units.to_display(out[col].to_numpy(), kind, system)
-            ren[col] = f"{col.rsplit('_', 1)[0] if '_' in col else col} [{units.unit_label(kind, system)}]"
-    return out.rename(columns=ren)
+    return dict(make(result, system) if callable(make) else result.figures)
 
 
 def number_text(value: float, kind: str = "ratio", digits: int = 3) -> str:
@@ -406,8 +428,9 @@ def _intake_link(spec: InputSpec) -> None:
         return
     set_values(spec, values)
     n = sum(1 for k in params if k in spec.keys)
-    differ = "input differs" if n == 1 else "inputs differ"
-    flash(kind, "success", f"Opened from a share link ({n} {differ} from the defaults).")
+    differ = ("every input at its default" if n == 0 else
+              f"{n} input differs from the defaults" if n == 1 else f"{n} inputs differ from the defaults")
+    flash(kind, "success", f"Opened from a share link ({differ}).")
     if system != unit_system():
         st.session_state[PENDING_UNITS] = system
 

@@ -12,7 +12,6 @@ from pathlib import Path
 
 import streamlit as st
 
-from liftcore import units
 from liftcore.errors import InputError
 from liftcore.report import (Run, comparison_csv, comparison_report, difference_text, group_by_kind,
                              headline_diff_rows, input_diff_rows, overlay_figure, _key_figure)

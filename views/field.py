@@ -13,7 +13,8 @@ study = study_module("field")
 
 FORMAT_HELP = (
     "Plain CSV with a header row **x, y, u, v** (any order, any case; other columns are ignored): "
-    "positions in metres, velocity components in m/s, one row per grid point in any order. The x "
+    "positions in metres, velocity components in m/s (files are always in these SI units, whichever "
+    "units the page shows), one row per grid point in any order. The x "
     "values must be evenly spaced, the y values too, and every (x, y) pair must appear exactly once. "
     "Lines starting with # are comments. Points inside the body may hold any number (0 is usual). "
     "Loops are run clockwise: positive circulation lifts to the left of the stream (up, for a "
@@ -30,7 +31,7 @@ st.title("Circulation from a measured field")
 st.caption(
     "Line integrals of the velocity round loops that enclose the body give its circulation; once "
     "the loops clear the body and its viscous layer the value settles, and Kutta-Joukowski turns "
-    "it into lift per metre of span."
+    "it into lift per unit length of span."
 )
 
 upload = st.file_uploader("Velocity field (CSV with columns x, y, u, v)", type=["csv", "txt"],
@@ -41,11 +42,7 @@ with st.sidebar:
         "rectangle_aspect": lambda v: v["loop_shape"] == "rectangle",
         "free_stream_m_s": lambda v: v["free_stream_mode"] == "given",
         "density_kg_m3": lambda v: v["density_mode"] == "given",
-        "air_mode": lambda v: v["density_mode"] == "air",
-        "altitude_m": lambda v: v["density_mode"] == "air" and v["air_mode"] == "isa",
-        "temperature_k": lambda v: v["density_mode"] == "air" and v["air_mode"] == "measured",
-        "pressure_pa": lambda v: v["density_mode"] == "air" and v["air_mode"] == "measured",
-        "relative_humidity_pct": lambda v: v["density_mode"] == "air",
+        **common.air_show_if(when=lambda v: v["density_mode"] == "air"),
     })
 
 extra = None
@@ -68,7 +65,7 @@ common.page_tools(study, extra=extra)
 common.show_headlines(result)
 common.show_warnings(common.general_warnings(result))
 
-figs = dict(result.figures)
+figs = common.study_figures(study, result)
 left, right = st.columns([1.1, 1])
 with left:
     common.show_figure(figs["Velocity field and loops"], key="field_map")
@@ -80,8 +77,9 @@ with right:
     )
 
 with st.expander("Circulation of each loop"):
-    st.dataframe(result.tables["loops"], hide_index=True, width="stretch")
-    st.download_button("Download as CSV", result.tables["loops"].to_csv(index=False),
+    loops = common.study_tables(study, result)["loops"]
+    st.dataframe(loops, hide_index=True, width="stretch")
+    st.download_button("Download as CSV", loops.to_csv(index=False),
                        file_name="circulation_per_loop.csv", mime="text/csv")
 with st.expander("File format"):
     st.markdown(FORMAT_HELP)

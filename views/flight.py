@@ -20,13 +20,16 @@ from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, integer, number
 from liftcore.studies import flight as study
 from liftcore.studies import format_number
-from views.common import (general_warnings, input_widget, number_text, page_tools, render_inputs,
-                          run_cached, show_figure, show_headlines, show_sources_and_cautions,
-                          show_warnings, state_key, table_in_units, unit_system)
+from views.common import (AIR_SHOW_IF, general_warnings, input_widget, number_text, page_tools,
+                          render_inputs, run_cached, show_figure, show_headlines,
+                          show_sources_and_cautions, show_warnings, state_key, study_figures,
+                          study_tables, table_in_units, unit_system)
 
 KIND = study.KIND
 SPEC = study.INPUTS
-MAX_KEPT = 4
+#: Flights pinned to the charts of this page (not the kept options of the Compare page).
+OVERLAY_KEY = "flight:overlaid"
+MAX_OVERLAID = 4
 
 # ----------------------------------------------------------------------------- tool inputs
 _SWEEP_CHOICES = tuple(bf.SWEEP_INPUTS)
@@ -122,6 +125,20 @@ def _demo_tracks():
     return bf.demo_tracks()
 
 
+def _overlay_label(i: int, vals: dict) -> str:
+    """The name of an overlaid flight, in the current units (so it follows the unit switch)."""
+    ball = BALLS[vals["ball"]].name if vals["ball"] in BALLS else "Custom ball"
+    return (f"Overlay {i}: {ball}, {number_text(vals['speed_m_s'], 'ball_speed')} at "
+            f"{format_number(vals['elevation_deg'])}°, {number_text(vals['spin_rpm'], 'rotation', 4)}")
+
+
+def _overlay_extra(overlaid: list):
+    """The study's ``extra`` for the overlaid flights: ((label, inputs), ...), or None."""
+    if not overlaid:
+        return None
+    return {"overlay": tuple((_overlay_label(i, v), v) for i, v in enumerate(overlaid, start=1))}
+
+
 # ----------------------------------------------------------------------------- sidebar
 def _show_if():
     return {
@@ -129,9 +146,7 @@ def _show_if():
         "custom_mass_kg": lambda v: v["ball"] == "custom",
         "constant_cd": lambda v: v["coefficient_model"] == "constant",
         "constant_cl": lambda v: v["coefficient_model"] == "constant",
-        "altitude_m": lambda v: v["air_mode"] == "isa",
-        "temperature_k": lambda v: v["air_mode"] == "measured",
-        "pressure_pa": lambda v: v["air_mode"] == "measured",
+        **AIR_SHOW_IF,
         "density_kg_m3": lambda v: bool(v["set_density"]),
         "wind_ref_height_m": lambda v: v["wind_profile"] == "power_law",
         "wind_exponent": lambda v: v["wind_profile"] == "power_law",
@@ -165,16 +180,17 @@ def _flight_tab(result, values):
     if gw:
         with st.expander(f"Model notes and warnings ({len(gw)})", expanded=False):
             show_warnings(gw)
-    flights = list(d.flights)
+    flights = list(study.display_flights(result, system))
+    figs = study_figures(study, result)
     c1, c2 = st.columns(2)
     with c1:
-        show_figure(fb.side_view(flights, system), key="fig_side")
+        show_figure(figs["Side view"], key="fig_side")
     with c2:
-        show_figure(fb.top_view(flights, system), key="fig_top")
-    show_figure(fb.trajectory_3d(flights, system), key="fig_3d")
+        show_figure(figs["Top view"], key="fig_top")
+    show_figure(figs["Flight path in 3-D"], key="fig_3d")
     c1, c2 = st.columns(2)
     with c1:
-        show_figure(fb.along_flight(flights, system), key="fig_along")
+        show_figure(figs["Along the flight"], key="fig_along")
     with c2:
         if d.setup.density_kg_m3 > 0:
             show_figure(fb.coefficient_curves(d.setup.model, flights[0], system), key="fig_coef")
@@ -188,23 +204,29 @@ def _flight_tab(result, values):
             for k, (label, kind) in bf.OUTPUTS.items():
                 row[f"{label} [{units.unit_label(kind, system)}]"] = float(units.to_display(getattr(f, k), kind, system))
             rows.append(row)
-        st.dataframe(pd.DataFrame(rows).round(2), hide_index=True, width="stretch")
+        st.dataframe(pd.DataFrame(rows).round(2), hide_index=True, width="stretch",
+                     column_config={"Flight": st.column_config.TextColumn(width="large")})
         if d.compare_warnings:
             show_warnings([w for w in d.compare_warnings if w.subject], title="Second flight: warnings")
     c1, c2, c3 = st.columns(3)
-    kept = st.session_state.setdefault("flight:kept", [])
-    if c1.button("Keep this flight for comparison", key="flight_keep", help=f"Up to {MAX_KEPT} kept flights are drawn with the current one."):
-        label = f"Kept {len(kept) + 1}: {BALLS.get(values['ball']).name if values['ball'] in BALLS else 'Custom'}, " \
-                f"{number_text(values['speed_m_s'], 'ball_speed')}, {values['elevation_deg']:.3g}°"
-        kept.append((label, {k: v for k, v in values.items() if k not in study.SPREAD_KEYS + study.COMPARE_KEYS}))
-        del kept[:-MAX_KEPT]
+    overlaid = st.session_state.setdefault(OVERLAY_KEY, [])
+    if c1.button("Overlay this flight on the charts", key="flight_overlay", icon=":material/stacked_line_chart:",
+                 help=f"Pins this flight to the charts above as an extra line (up to {MAX_OVERLAID}), so "
+                      "you can change the inputs and see the difference on this page. Only for this "
+                      "page; to set whole options side by side on the Compare options page, use "
+                      "“Keep as option” in the sidebar."):
+        overlaid.append({k: v for k, v in values.items() if k not in study.SPREAD_KEYS + study.COMPARE_KEYS})
+        del overlaid[:-MAX_OVERLAID]
         st.rerun()
-    if kept and c2.button("Forget kept flights", key="flight_forget"):
-        kept.clear()
+    if overlaid and c2.button(f"Clear overlaid flights ({len(overlaid)})", key="flight_overlay_clear",
+                              icon=":material/layers_clear:"):
+        overlaid.clear()
         st.rerun()
-    path = pd.DataFrame(flights[0].path)
-    c3.download_button("Path of this flight (CSV, SI)", path.to_csv(index=False), "flight_path.csv",
-                       "text/csv", key="flight_download")
+    path = study_tables(study, result)[f"path: {flights[0].label}"]
+    c3.download_button("Path of this flight (CSV)", path.to_csv(index=False), "flight_path.csv",
+                       "text/csv", key="flight_download",
+                       help="Time, position, speed, spin and coefficients along the flight, in the "
+                            "units chosen (the unit is in each column name)")
 
 
 def _sweep_tab(values):
@@ -369,7 +391,27 @@ def _fit_tab(values):
     with c2:
         show_figure(fb.fit_residuals(fit, system), key="fig_fit_res")
     with st.expander("All fitted parameters"):
-        st.dataframe(fit.table().round(5), hide_index=True, width="stretch")
+        st.dataframe(_fit_table(fit, system).round(5), hide_index=True, width="stretch")
+
+
+#: Units the fit names its launch-state parameters in, and their quantity kinds.
+_FIT_UNITS = {"[m]": "length", "[m/s]": "ball_speed"}
+
+
+def _fit_table(fit, system: str) -> pd.DataFrame:
+    """The fitted parameters with launch positions and velocities in ``system``'s units."""
+    table = fit.table()
+    names, vals, sds = [], [], []
+    for name, v, sd in zip(table["parameter"], table["value"], table["sd"]):
+        for unit, kind in _FIT_UNITS.items():
+            if name.endswith(unit):
+                name = name[:-len(unit)] + f"[{units.unit_label(kind, system)}]"
+                v, sd = float(units.to_display(v, kind, system)), float(units.to_display(sd, kind, system))
+                break
+        names.append(name)
+        vals.append(v)
+        sds.append(sd)
+    return pd.DataFrame({"parameter": names, "value": vals, "sd": sds})
 
 
 def _balls_tab():
@@ -392,8 +434,7 @@ st.caption("How far, how high and how much a spinning ball curves, with drag, Ma
            "and the air of the venue. Every example is invented. Drift and angles are positive to the right.")
 values = _sidebar()
 main_values = dict(values, dispersion_n=0)
-kept = st.session_state.get("flight:kept", [])
-extra = {"overlay": tuple(kept)} if kept else None
+extra = _overlay_extra(st.session_state.get(OVERLAY_KEY, []))
 page_tools(study, extra=extra)
 try:
     result = run_cached(KIND, main_values, extra=extra, label="Flying")

@@ -19,9 +19,7 @@ with st.sidebar:
     values = common.render_inputs(study.INPUTS, show_if={
         "spin_ratio": lambda v: v["spin_mode"] == "ratio",
         "spin_rpm": lambda v: v["spin_mode"] == "rpm",
-        "altitude_m": lambda v: v["air_mode"] == "isa",
-        "temperature_k": lambda v: v["air_mode"] == "measured",
-        "pressure_pa": lambda v: v["air_mode"] == "measured",
+        **common.AIR_SHOW_IF,
     })
 common.page_tools(study)
 
@@ -36,7 +34,7 @@ common.show_warnings(common.general_warnings(result))
 st.markdown(f"**{study.stagnation_text(result.detail)}**")
 st.caption(study.SIGN_CONVENTION)
 
-figs = dict(result.figures)
+figs = common.study_figures(study, result)
 left, right = st.columns([1.15, 1])
 with left:
     common.show_figure(figs["Streamlines"], key="flow_streamlines")
@@ -49,8 +47,9 @@ with right:
     common.show_figure(figs["Ideal lift coefficient"], key="flow_cl")
 
 with st.expander("Surface table (every 5°)"):
-    st.dataframe(result.tables["surface"], hide_index=True, width="stretch")
-    st.download_button("Download as CSV", result.tables["surface"].to_csv(index=False),
+    surface = common.study_tables(study, result)["surface"]
+    st.dataframe(surface, hide_index=True, width="stretch")
+    st.download_button("Download as CSV", surface.to_csv(index=False),
                        file_name="spinning_cylinder_surface.csv", mime="text/csv")
 
 common.show_sources_and_cautions(study)

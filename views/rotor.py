@@ -9,7 +9,7 @@ import pandas as pd
 import streamlit as st
 
 from liftcore import coefficients as coef
-from liftcore import figures_rotor, units
+from liftcore import units
 from liftcore.errors import InputError
 from liftcore.studies import format_number
 from liftcore.studies import rotor as study
@@ -34,8 +34,7 @@ SHOW_IF = {
     "charnock_constant": lambda v: v["wind_profile"] == "log",
     "rotor_spacing_m": lambda v: v["rotor_count"] > 1,
     "interaction_factor": lambda v: v["rotor_count"] > 1,
-    "temperature_k": lambda v: v["air_mode"] == "measured",
-    "pressure_pa": lambda v: v["air_mode"] == "measured",
+    **common.AIR_SHOW_IF,
 }
 
 _FIGURES: "OrderedDict[tuple, tuple]" = OrderedDict()
@@ -90,7 +89,7 @@ def _figures(result, system: str) -> tuple:
     with _FIG_LOCK:
         if key in _FIGURES:
             return _FIGURES[key][1]
-    figs = result.figures if system == "SI" else figures_rotor.all_figures(result.detail, system)
+    figs = study.figures_in_units(result, system)
     with _FIG_LOCK:
         _FIGURES[key] = (result, figs)  # keep the result alive so its id is not reused
         while len(_FIGURES) > 16:
@@ -199,12 +198,16 @@ with tab_span:
                f"own wind does not, so each of the {d.setup.strips} strips sees its own apparent "
                "wind and spin ratio at the one rotor speed.")
 with tab_tables:
-    for name, label in (("operating_point", "Operating point (SI)"), ("coefficient_sets", "Coefficient sets (SI)"),
-                        ("wind_angle_sweep", "Wind angle sweep (SI)"), ("along_the_rotor", "Along the rotor (SI)")):
-        df = result.tables[name]
+    st.caption(f"In the units chosen at the top of the sidebar ({common.UNIT_LABELS[system]}); the "
+               "unit of each number is in its column name. Downloads hold the table as shown.")
+    shown_tables = common.study_tables(study, result)
+    for name, label in (("operating_point", "Operating point"), ("coefficient_sets", "Coefficient sets"),
+                        ("coefficient_set_sources", "Coefficient set sources"),
+                        ("wind_angle_sweep", "Wind angle sweep"), ("along_the_rotor", "Along the rotor")):
+        df = shown_tables[name]
         st.markdown(f"**{label}**")
-        st.dataframe(df, hide_index=True, width="stretch", height=240)
-        st.download_button(f"Download {label.split(' (')[0].lower()} as CSV", df.to_csv(index=False),
+        st.dataframe(df, hide_index=True, width="stretch", height=min(240, 40 + 35 * len(df)))
+        st.download_button(f"Download {label.lower()} as CSV", df.to_csv(index=False),
                            file_name=f"rotor_{name}.csv", mime="text/csv", key=f"rotor:dl:{name}")
 
 common.show_sources_and_cautions(study)

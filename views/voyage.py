@@ -8,8 +8,9 @@ import streamlit as st
 from liftcore import windstats
 from liftcore.errors import InputError
 from liftcore.studies import voyage as study
-from views.common import (general_warnings, page_tools, render_inputs, run_cached, show_figure,
-                          show_headlines, show_sources_and_cautions, show_warnings, unit_system)
+from views.common import (AIR_SHOW_IF, UNIT_LABELS, general_warnings, page_tools, render_inputs,
+                          run_cached, show_figure, show_headlines, show_sources_and_cautions,
+                          show_warnings, study_figures, study_tables, unit_system)
 
 KIND = study.KIND
 UPLOAD_KEY = "voyage:upload"
@@ -49,8 +50,7 @@ only = {
     "user_coefficients_csv": lambda v: v["coefficient_set"] == "user",
     "user_aspect_ratio": lambda v: v["coefficient_set"] == "user",
     "user_end_plate_ratio": lambda v: v["coefficient_set"] == "user",
-    "temperature_k": lambda v: v["air_mode"] == "measured",
-    "pressure_pa": lambda v: v["air_mode"] == "measured",
+    **AIR_SHOW_IF,
     "power_law_exponent": lambda v: v["wind_profile"] == "power",
     "charnock_constant": lambda v: v["wind_profile"] == "log",
     "sweep_max_rotors": lambda v: v["sweep"],
@@ -104,7 +104,7 @@ show_headlines(result, keys=("mean_net_power", "annual_fuel_saved", "annual_co2_
 show_headlines(result, keys=("payback", "annual_energy_saved", "mean_thrust", "engine_power_share"))
 show_headlines(result, keys=("running_share", "limited_share", "stopped_share", "peak_heeling_moment"))
 
-figs = dict(study.figures(d, values, system))
+figs = study_figures(study, result)
 c1, c2 = st.columns(2)
 with c1:
     show_figure(figs["Wind rose of the input"], key="voyage:rose")
@@ -139,9 +139,11 @@ st.caption("(0.5144 V_ref / η_T) Σ F·W − Σ P·W from MEPC.1/Circ.896, with
 
 show_warnings(general_warnings(result), title="About the model and the data")
 
-with st.expander("Tables (core units) to download", expanded=False):
-    for name, table in result.tables.items():
-        st.markdown(f"**{name.replace('_', ' ')}**")
+with st.expander("Tables to download", expanded=False):
+    st.caption(f"In the units chosen at the top of the sidebar ({UNIT_LABELS[system]}); the unit of "
+               "each number is in its column name. Downloads hold the table as shown.")
+    for name, table in study_tables(study, result).items():
+        st.markdown(f"**{name.replace('_', ' ').capitalize()}**")
         st.dataframe(table, hide_index=True, height=min(300, 40 + 35 * len(table)))
         st.download_button(f"Download {name}.csv", table.to_csv(index=False).encode(),
                            file_name=f"voyage_{name}.csv", mime="text/csv", key=f"voyage:csv:{name}")

@@ -13,6 +13,18 @@ A study module defines::
 ``progress``, when given, is called as ``progress(fraction, text)`` during long work.
 ``extra`` carries uploaded data (a CSV as a DataFrame) that is not a scalar input.
 
+Optional, read with ``getattr`` by the report and the Compare options page::
+
+    COMPARE_FIGURE = 0                  # the key chart to compare options by: an index into
+                                        # result.figures, a title, or None for no chart; without
+                                        # it the first chart that can be overlaid is used
+    def figures_in_units(result, system) -> tuple   # the same (title, figure) pairs as
+                                        # result.figures, with axes, hover and annotations in the
+                                        # display units of ``system`` ("SI", "marine", "imperial")
+    def tables_in_units(result, system) -> dict     # the tables to show people: converted to
+                                        # ``system`` with the unit in each column name (see
+                                        # :func:`table_in_units`); result.tables stay in core units
+
 The dashboard pages, ``python -m liftcore run``, the comparison page and the report all go through
 :func:`run_study`, so every number shown anywhere comes from the same call.
 """
@@ -65,6 +77,51 @@ def format_number(v: float, digits: int = 3) -> str:
     if abs(v) >= 10 ** digits:
         return f"{v:,.0f}"
     return f"{v:.{digits}g}" if abs(v) >= 1e-3 or v == 0 else f"{v:.2e}"
+
+
+#: Core-unit suffixes of column names, longest first (``surface_speed_m_s`` -> ``surface speed``).
+_UNIT_SUFFIXES = ("_kg_m3", "_m2_s", "_m_s", "_n_m", "_knm", "_pct", "_deg", "_rpm", "_kw", "_kg",
+                  "_pa", "_nm", "_m", "_n", "_w", "_j", "_s", "_h", "_k")
+
+
+def column_label(column: str, kind: str = "ratio", system: str = "SI") -> str:
+    """Plain words and the display unit of a core-unit column name:
+    ``column_label("surface_speed_m_s", "speed", "imperial") == "surface speed [mph]"``."""
+    base = column
+    for suffix in _UNIT_SUFFIXES:
+        if base.endswith(suffix) and len(base) > len(suffix):
+            base = base[:-len(suffix)]
+            break
+    base = base.replace("_", " ")
+    unit = "" if kind in ("ratio", "money") else units.unit_label(kind, system)
+    return f"{base} [{unit}]" if unit else base
+
+
+def table_in_units(df, quantities: dict, system: str = "SI"):
+    """A copy of ``df`` with the columns named in ``quantities`` (column -> quantity kind, values
+    in the kind's core unit) converted to ``system`` and renamed by :func:`column_label`
+    (``"ratio"`` columns are only renamed). Other columns are left as they are."""
+    out = df.copy()
+    names = {}
+    for col, kind in quantities.items():
+        if col in out.columns:
+            if kind not in ("ratio", "money"):
+                out[col] = units.to_display(out[col].to_numpy(dtype=float), kind, system)
+            names[col] = column_label(col, kind, system)
+    return out.rename(columns=names)
+
+
+def quantity_table(rows, system: str = "SI"):
+    """A two-column table of named values (``quantity``, ``value``, ``unit``) in ``system`` from
+    ``rows`` of (core-unit key, core value, quantity kind)."""
+    import pandas as pd
+
+    out = []
+    for key, value, kind in rows:
+        unit = "" if kind in ("ratio", "money") else units.unit_label(kind, system)
+        out.append({"quantity": column_label(key), "value": float(units.to_display(value, kind, system)),
+                    "unit": unit})
+    return pd.DataFrame(out, columns=["quantity", "value", "unit"])
 
 
 @dataclass(frozen=True)

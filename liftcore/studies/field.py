@@ -6,24 +6,27 @@ the invented demo field is used.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 import pandas as pd
 
 from liftcore import fieldcirc as fc
 from liftcore import figures_flow as ff
+from liftcore import units
 from liftcore.air import air_inputs, air_state_from_inputs
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, integer, number
-from liftcore.studies import Headline, StudyResult
+from liftcore.studies import Headline, StudyResult, table_in_units
 from liftcore.validity import mach_warning, merge
 
 KIND = "field"
 TITLE = "Circulation from a measured field"
 
 INPUTS = InputSpec(KIND, (
-    number("body_x_m", "Body centre x", "length", 0.0, -10000.0, 10000.0, section="Body",
+    number("body_x_m", "Body centre x", "length", 0.0, -10000.0, 10000.0, section="Body", step=0.01,
            help="Where the body's centre is, in the field's own coordinates."),
-    number("body_y_m", "Body centre y", "length", 0.0, -10000.0, 10000.0, section="Body"),
+    number("body_y_m", "Body centre y", "length", 0.0, -10000.0, 10000.0, section="Body", step=0.01),
     number("body_radius_m", "Body radius", "length", 0.05, 1e-4, 1000.0, section="Body",
            help="Loops must stay at least one grid cell outside this radius."),
     choice("loop_shape", "Loop shape", fc.LOOP_SHAPES, default="circle",
@@ -63,6 +66,47 @@ DEMO_NOTE = ("The field shown is the invented demo field (ideal flow round a spi
              "with a made-up wake and noise), not a measurement. Upload your own CSV to replace it.")
 
 
+#: Quantity kinds of the loops table's columns (for display in other units).
+LOOP_UNITS = {"loop_size_m": "length", "circulation_m2_s": "circulation"}
+
+
+@dataclass(frozen=True)
+class FieldDetail:
+    """The field the loops ran over and what they found (the charts need both)."""
+
+    field: fc.VelocityField
+    circulation: fc.CirculationResult
+
+
+def field_figures(field, res, system: str = "SI") -> tuple:
+    """(title, figure) pairs of the study in ``system``'s display units."""
+    return (
+        ("Velocity field and loops", ff.field_map_figure(field, res, system=system)),
+        ("Circulation against loop size", ff.circulation_figure(res, system)),
+    )
+
+
+def figures_in_units(result: StudyResult, system: str) -> tuple:
+    """The charts of ``result`` in ``system``'s display units."""
+    if system == "SI":
+        return result.figures
+    return field_figures(result.detail.field, result.detail.circulation, system)
+
+
+def tables_in_units(result: StudyResult, system: str) -> dict:
+    """The loops table in ``system``'s units, with the unit in each column name."""
+    out = table_in_units(result.tables["loops"], LOOP_UNITS, system)
+    res = result.detail.circulation
+    lu = units.unit_label("length", system)
+    sizes = units.to_display(np.asarray(res.loop_sizes_m, dtype=float), "length", system)
+    if res.loop_shape == "circle":
+        out["loop"] = [f"circle, radius {s:.4g} {lu}" for s in sizes]
+    else:
+        out["loop"] = [f"rectangle, {2 * res.rectangle_aspect * s:.4g} {lu} wide, {2 * s:.4g} {lu} high"
+                       for s in sizes]
+    return {"loops": out}
+
+
 def run(values: dict, progress=None, extra=None) -> StudyResult:
     if progress:
         progress(0.02, "Checking the field")
@@ -90,10 +134,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     if values["density_mode"] == "air":
         warnings = merge(warnings, air.warnings,
                          mach_warning(res.free_stream_speed_m_s, air.speed_of_sound_m_s, "lift_per_span_n_m"))
-    figures = (
-        ("Velocity field and loops", ff.field_map_figure(field, res)),
-        ("Circulation against loop size", ff.circulation_figure(res)),
-    )
+    figures = field_figures(field, res, "SI")
     loops = pd.DataFrame({"loop_size_m": res.loop_sizes_m, "circulation_m2_s": res.circulations_m2_s,
                           "counted": res.settled, "loop": res.loop_labels})
     headlines = (
@@ -101,7 +142,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                  "Mean over the outer half of the loops; positive is clockwise."),
         Headline("circulation_spread_m2_s", "Loop-to-loop spread ±", res.circulation_spread_m2_s,
                  "circulation", 2, "Half the range of the outer loops' circulations."),
-        Headline("lift_per_span_n_m", "Lift per metre of span ρVΓ", res.lift_per_span_n_m,
+        Headline("lift_per_span_n_m", "Lift per unit span ρVΓ", res.lift_per_span_n_m,
                  "force_per_span", 4, "Kutta-Joukowski with the free-stream speed and density used."),
         Headline("lift_spread_n_m", "Lift spread ±", res.lift_spread_n_m, "force_per_span", 2),
         Headline("free_stream_speed_m_s", "Free-stream speed", res.free_stream_speed_m_s, "speed", 4),
@@ -118,4 +159,5 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     if progress:
         progress(1.0, "Done")
     return StudyResult(kind=KIND, inputs=dict(values), headlines=headlines, warnings=warnings,
-                       figures=figures, tables={"loops": loops}, detail=res, json=data)
+                       figures=figures, tables={"loops": loops}, detail=FieldDetail(field, res),
+                       json=data)

@@ -13,10 +13,11 @@ import pandas as pd
 
 from liftcore import ballflight as bf
 from liftcore import figures_ball as fb
+from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
 from liftcore.inputs import InputSpec, choice, flag, integer, number
-from liftcore.studies import Headline, StudyResult
+from liftcore.studies import Headline, StudyResult, table_in_units
 from liftcore.validity import ModelWarning, merge
 
 KIND = "flight"
@@ -191,8 +192,22 @@ def spread_sd(values: dict) -> dict:
             "spin_axis_deg": values["sd_spin_axis_deg"]}
 
 
-def _label(setup, values, air) -> str:
-    return f"{setup.ball.name}, {values['speed_m_s']:.3g} m/s at {values['elevation_deg']:.3g}°"
+def comparison_label(values: dict, system: str = "SI") -> str:
+    """The name of the second flight, with its number in ``system``'s display units."""
+    mode = values["compare_with"]
+
+    def shown(key, kind, fmt):
+        return f"{units.to_display(values[key], kind, system):{fmt}} {units.unit_label(kind, system)}"
+
+    if mode == "altitude":
+        return f"At {shown('compare_altitude_m', 'altitude', '.0f')} altitude"
+    if mode == "ball":
+        return BALLS[values["compare_ball"]].name
+    if mode == "spin":
+        return f"Spin {shown('compare_spin_rpm', 'rotation', '.0f')}"
+    if mode == "speed":
+        return f"Speed {shown('compare_speed_m_s', 'ball_speed', '.3g')}"
+    return "Without air (vacuum)"
 
 
 def comparison_flight(values: dict):
@@ -203,24 +218,19 @@ def comparison_flight(values: dict):
     if mode == "altitude":
         setup, air = setup_from_values(values, altitude_m=values["compare_altitude_m"])
         la = launch_from_values(values)
-        label = f"At {values['compare_altitude_m']:.0f} m altitude"
     elif mode == "ball":
         setup, air = setup_from_values(values, ball_key=values["compare_ball"])
         la = launch_from_values(values)
-        label = BALLS[values["compare_ball"]].name
     elif mode == "spin":
         setup, air = setup_from_values(values)
         la = launch_from_values(values, spin_rpm=values["compare_spin_rpm"])
-        label = f"Spin {values['compare_spin_rpm']:.0f} rpm"
     elif mode == "speed":
         setup, air = setup_from_values(values)
         la = launch_from_values(values, speed_m_s=values["compare_speed_m_s"])
-        label = f"Speed {values['compare_speed_m_s']:.3g} m/s"
     else:
         setup, air = setup_from_values(values, no_air=True)
         la = launch_from_values(values)
-        label = "Without air (vacuum)"
-    return bf.fly(setup, la, label=label), setup
+    return bf.fly(setup, la, label=comparison_label(values)), setup
 
 
 def run(values: dict, progress=None, extra=None) -> StudyResult:
@@ -251,12 +261,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                      "spin decay)", ""))
     heads = tuple(Headline(k, label, getattr(main, k), kind, 3 if k != "carry_m" else 4, HEADLINE_HELP[k])
                   for k, (label, kind) in bf.OUTPUTS.items())
-    figs = (("Flight path in 3-D", fb.trajectory_3d(flights)),
-            ("Side view", fb.side_view(flights)),
-            ("Top view", fb.top_view(flights)),
-            ("Along the flight", fb.along_flight(flights)))
-    if disp is not None:
-        figs += (("Landing spread", fb.dispersion_figure(disp)),)
+    figs = flight_figures(flights, disp, "SI")
     tables = {}
     for f in flights:
         df = pd.DataFrame(f.path)
@@ -278,3 +283,61 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                          "flight_time_s": disp.flight_time_s, **{f"launch_{k}": v for k, v in disp.draws.items()}})
     return StudyResult(KIND, dict(values), heads, merge(warnings), figs, tables,
                        FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws), js)
+
+
+# ----------------------------------------------------------------------------- display units
+#: Quantity kinds of the flight tables' columns (path, flights, spread).
+COLUMN_UNITS = {
+    "t_s": "time", "x_m": "distance", "lateral_m": "distance", "z_m": "length", "speed_m_s": "ball_speed",
+    "air_speed_m_s": "ball_speed", "spin_rpm": "rotation", "spin_parameter": "ratio", "reynolds": "ratio",
+    "cd": "ratio", "cl": "ratio", "carry_m": "distance", "peak_height_m": "length", "flight_time_s": "time",
+    "descent_angle_deg": "angle", "landing_speed_m_s": "ball_speed", "landing_spin_rpm": "rotation",
+    "launch_speed_m_s": "ball_speed", "launch_elevation_deg": "angle", "launch_azimuth_deg": "angle",
+    "launch_spin_rpm": "rotation", "launch_spin_axis_deg": "angle",
+}
+#: Plain names for columns whose key says too little once the unit is gone.
+DISPLAY_NAMES = {"x_m": "downrange_m", "lateral_m": "drift_right_m", "z_m": "height_m",
+                 "speed_m_s": "ball_speed_m_s", "reynolds": "Reynolds_number", "cd": "CD", "cl": "CL"}
+
+
+def flight_figures(flights, disp=None, system: str = "SI") -> tuple:
+    """(title, figure) pairs of the study in ``system``'s display units."""
+    figs = (("Flight path in 3-D", fb.trajectory_3d(flights, system)),
+            ("Side view", fb.side_view(flights, system)),
+            ("Top view", fb.top_view(flights, system)),
+            ("Along the flight", fb.along_flight(flights, system)))
+    if disp is not None:
+        figs += (("Landing spread", fb.dispersion_figure(disp, system)),)
+    return figs
+
+
+def display_flights(result: StudyResult, system: str) -> tuple:
+    """The flights of ``result`` with the second flight's name in ``system``'s units."""
+    flights = list(result.detail.flights)
+    if result.inputs.get("compare_with", "none") != "none" and len(flights) > 1:
+        flights[1] = replace(flights[1], label=comparison_label(result.inputs, system))
+    return tuple(flights)
+
+
+def figures_in_units(result: StudyResult, system: str) -> tuple:
+    """The charts of ``result`` with distances, heights and speeds in ``system``'s units."""
+    if system == "SI":
+        return result.figures
+    return flight_figures(display_flights(result, system), result.detail.dispersion, system)
+
+
+def tables_in_units(result: StudyResult, system: str) -> dict:
+    """The study's tables in ``system``'s units, the unit in each column name."""
+    def shown(df):
+        df = df.rename(columns=DISPLAY_NAMES)
+        kinds = {DISPLAY_NAMES.get(c, c): k for c, k in COLUMN_UNITS.items()}
+        return table_in_units(df, {c: k for c, k in kinds.items() if c in df.columns}, system)
+
+    flights = display_flights(result, system)
+    out = {f"path: {f.label}": shown(pd.DataFrame(f.path)) for f in flights}
+    table = result.tables["flights"].copy()
+    table["flight"] = [f.label for f in flights]
+    out["flights"] = shown(table)
+    if "spread" in result.tables:
+        out["spread"] = shown(result.tables["spread"])
+    return out

@@ -7,9 +7,10 @@ import pandas as pd
 
 from liftcore import figures_flow as ff
 from liftcore import potential as pot
+from liftcore import units
 from liftcore.air import air_inputs, air_state_from_inputs
 from liftcore.inputs import InputSpec, choice, number
-from liftcore.studies import Headline, StudyResult
+from liftcore.studies import Headline, StudyResult, table_in_units
 from liftcore.validity import merge
 
 KIND = "flow"
@@ -71,6 +72,38 @@ def stagnation_text(res: pot.IdealCylinderResult) -> str:
             f"({res.stagnation_distance_m:.3g} m); the air inside that streamline turns with the body.")
 
 
+#: Quantity kinds of the surface table's columns (for display in other units).
+SURFACE_UNITS = {"angle_deg": "angle", "surface_speed_m_s": "speed", "pressure_coefficient": "ratio"}
+#: Unit of the surface pressure difference per unit system (Pint string, label): a few pascals,
+#: so not the barometric hPa or inHg of the ``pressure`` kind.
+PRESSURE_DIFFERENCE_UNITS = {"SI": ("Pa", "Pa"), "marine": ("Pa", "Pa"), "imperial": ("lbf/ft^2", "lbf/ft²")}
+
+
+def flow_figures(res: pot.IdealCylinderResult, system: str = "SI") -> tuple:
+    """(title, figure) pairs of the study; positions are in body radii and Cp and CL have no
+    unit, so only the named radius, stream speed and point positions follow ``system``."""
+    return (
+        ("Streamlines", ff.streamlines_figure(res, system=system)),
+        ("Surface pressure", ff.surface_pressure_figure(res)),
+        ("Pressure integral check", ff.pressure_check_figure(res)),
+        ("Ideal lift coefficient", ff.ideal_lift_figure(res)),
+    )
+
+
+def figures_in_units(result: StudyResult, system: str) -> tuple:
+    """The charts of ``result`` in ``system``'s display units."""
+    return result.figures if system == "SI" else flow_figures(result.detail, system)
+
+
+def tables_in_units(result: StudyResult, system: str) -> dict:
+    """The surface table in ``system``'s units, with the unit in each column name."""
+    table = result.tables["surface"]
+    out = table_in_units(table, SURFACE_UNITS, system)
+    unit, label = PRESSURE_DIFFERENCE_UNITS[system]
+    out["pressure_difference_pa"] = units.convert(table["pressure_difference_pa"].to_numpy(), "Pa", unit)
+    return {"surface": out.rename(columns={"pressure_difference_pa": f"pressure difference [{label}]"})}
+
+
 def run(values: dict, progress=None, extra=None) -> StudyResult:
     if progress:
         progress(0.05, "Air state")
@@ -79,12 +112,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                       air.density_kg_m3, air.speed_of_sound_m_s)
     if progress:
         progress(0.4, "Flow field")
-    figures = (
-        ("Streamlines", ff.streamlines_figure(res)),
-        ("Surface pressure", ff.surface_pressure_figure(res)),
-        ("Pressure integral check", ff.pressure_check_figure(res)),
-        ("Ideal lift coefficient", ff.ideal_lift_figure(res)),
-    )
+    figures = flow_figures(res, "SI")
     if progress:
         progress(0.9, "Tables")
     theta_deg = np.linspace(0.0, 360.0, 73)
@@ -102,7 +130,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         Headline("spin_rpm", "Rotation rate", res.spin_rpm, "rotation", 4),
         Headline("circulation_m2_s", "Circulation Γ = 2πR·ωR", res.circulation_m2_s, "circulation", 4,
                  "No-slip idealisation: surface speed times circumference."),
-        Headline("lift_per_span_n_m", "Ideal lift per metre of span ρVΓ", res.lift_per_span_n_m,
+        Headline("lift_per_span_n_m", "Ideal lift per unit span ρVΓ", res.lift_per_span_n_m,
                  "force_per_span", 4, "Kutta-Joukowski; positive is up in the pictures."),
         Headline("lift_coefficient", "Lift coefficient CL = 2π SR", res.lift_coefficient, "ratio", 4,
                  "On the diameter: L' / (½ρV²·2R)."),

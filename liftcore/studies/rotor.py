@@ -20,7 +20,7 @@ from liftcore.air import AirState, air_inputs, air_state_from_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, number
-from liftcore.studies import Headline, StudyResult
+from liftcore.studies import Headline, StudyResult, column_label, quantity_table, table_in_units
 from liftcore.validity import merge
 
 KIND = "rotor"
@@ -258,6 +258,69 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     prog(1.0, "Done")
     return StudyResult(kind=KIND, inputs=dict(values), headlines=headlines(op), warnings=warnings,
                        figures=figures, tables=tables, detail=detail, json=json_result(op, warnings))
+
+
+# ----------------------------------------------------------------------------- display units
+def figures_in_units(result: StudyResult, system: str) -> tuple:
+    """The charts of ``result`` with forces, powers, speeds and heights in ``system``'s units."""
+    return result.figures if system == "SI" else figures_rotor.all_figures(result.detail, system)
+
+
+#: Plain words and quantity kind of every core-unit key of the operating point (rotor-set totals).
+OPERATING_UNITS = {
+    "apparent_wind_speed_m_s": ("apparent wind speed at mid-height", "wind_speed"),
+    "apparent_wind_angle_deg": ("apparent wind angle at mid-height", "angle"),
+    "apparent_wind_speed_ref_m_s": ("apparent wind speed at the height of the given wind", "wind_speed"),
+    "apparent_wind_angle_ref_deg": ("apparent wind angle at the height of the given wind", "angle"),
+    "spin_ratio": ("spin ratio at mid-height", "ratio"),
+    "spin_ratio_span_min": ("spin ratio along the rotor, lowest", "ratio"),
+    "spin_ratio_span_max": ("spin ratio along the rotor, highest", "ratio"),
+    "rpm": ("rotor speed", "rotation"), "reynolds_number": ("Reynolds number", "ratio"),
+    "lift_coefficient": ("lift coefficient", "ratio"), "drag_coefficient": ("drag coefficient", "ratio"),
+    "power_coefficient": ("spin-power coefficient", "ratio"), "lift_n": ("lift", "large_force"),
+    "drag_n": ("drag", "large_force"), "thrust_n": ("thrust", "large_force"),
+    "side_force_n": ("side force", "large_force"), "heeling_moment_nm": ("heeling moment", "moment"),
+    "yaw_moment_nm": ("yaw moment", "moment"), "spin_power_w": ("spin power (shaft)", "power"),
+    "electrical_power_w": ("electric power drawn", "power"),
+    "propulsion_power_saved_w": ("engine power saved", "power"),
+    "net_power_w": ("net power gain", "power"),
+}
+#: Plain names for the core tables' columns before conversion (then the kinds below apply).
+DISPLAY_NAMES = {"rpm": "rotor_speed_rpm", "net_power_w": "net_power_gain_w", "sr_range": "spin_ratio_range",
+                 "reynolds_range": "Reynolds_number_range", "thrust_per_m_n_m": "thrust_per_length_n_m"}
+SETS_UNITS = {"spin_ratio": "ratio", "rotor_speed_rpm": "rotation", "thrust_n": "large_force",
+              "spin_power_w": "power", "net_power_gain_w": "power"}
+#: Where each set comes from (a table of its own: the sources are long).
+SOURCE_COLUMNS = {"set": "ratio", "kind": "ratio", "aspect_ratio": "ratio", "end_plate_ratio": "ratio",
+                  "spin_ratio_range": "ratio", "Reynolds_number_range": "ratio", "source": "ratio"}
+SWEEP_UNITS = {"true_wind_angle_deg": "angle", "apparent_wind_angle_deg": "angle", "spin_ratio": "ratio",
+               "rotor_speed_rpm": "rotation", "thrust_n": "large_force", "side_force_n": "large_force", "heeling_moment_nm": "moment",
+               "spin_power_w": "power", "net_power_gain_w": "power"}
+SPAN_UNITS = {"height_m": "length", "true_wind_speed_m_s": "wind_speed",
+              "apparent_wind_speed_m_s": "wind_speed", "apparent_wind_angle_deg": "angle",
+              "spin_ratio": "ratio", "thrust_per_length_n_m": "force_per_span"}
+STATE_WORDS = {rotor.STOPPED: "stopped", rotor.RUNNING: "running", rotor.AT_LIMIT: "at a limit"}
+
+
+def tables_in_units(result: StudyResult, system: str) -> dict:
+    """The study's tables in ``system``'s units, the unit in each column name (the operating point
+    as quantity, value, unit rows); the sweep gives the rotor state in words."""
+    d = result.detail
+    one = d.operation.at(())
+    rows = [(label, one[k], kind) for k, (label, kind) in OPERATING_UNITS.items()]
+    rows.append(("rotor state (0 stopped, 1 running, 2 at a limit)", float(one["state"]), "ratio"))
+    op = quantity_table(rows, system)
+    def shown(name, kinds):
+        return table_in_units(result.tables[name].rename(columns=DISPLAY_NAMES), kinds, system)
+
+    every = shown("coefficient_sets", {**SOURCE_COLUMNS, **SETS_UNITS})
+    sets = every[["set"] + [column_label(c, k, system) for c, k in SETS_UNITS.items()] + ["chosen"]]
+    sources = every[[column_label(c) for c in SOURCE_COLUMNS]]
+    sweep = shown("wind_angle_sweep", SWEEP_UNITS)
+    sweep["state"] = [STATE_WORDS[int(x)] for x in sweep["state"]]
+    span = shown("along_the_rotor", SPAN_UNITS)
+    return {"operating_point": op, "coefficient_sets": sets, "coefficient_set_sources": sources,
+            "wind_angle_sweep": sweep, "along_the_rotor": span}
 
 
 # ----------------------------------------------------------------------------- tables (SI)

@@ -27,7 +27,7 @@ from liftcore.air import air_inputs
 from liftcore.constants import CO2_FACTOR_T_PER_T, KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number, text
-from liftcore.studies import Headline, StudyResult
+from liftcore.studies import Headline, StudyResult, quantity_table, table_in_units
 from liftcore.validity import ModelWarning
 
 KIND = "voyage"
@@ -426,4 +426,72 @@ def tables(d: VoyageDetail) -> dict:
             out["by_leg"] = legs
     if d.sweep is not None:
         out["design_options"] = d.sweep
+    return out
+
+
+# ----------------------------------------------------------------------------- display units
+def figures_in_units(result: StudyResult, system: str) -> tuple:
+    """The charts of ``result`` with powers, speeds and masses in ``system``'s units."""
+    return result.figures if system == "SI" else tuple(figures(result.detail, result.inputs, system))
+
+
+#: Plain words and quantity kind of the summary's core-unit fields (shares are shown in %).
+SUMMARY_UNITS = {
+    "mean_net_power_w": ("net power gain, mean at sea", "power"),
+    "mean_thrust_n": ("thrust, mean at sea", "large_force"),
+    "mean_spin_power_w": ("spin power, mean at sea", "power"),
+    "mean_engine_power_saved_w": ("engine power saved, mean at sea", "power"),
+    "mean_side_force_n": ("side force, mean at sea", "large_force"),
+    "peak_side_force_n": ("highest side force met", "large_force"),
+    "peak_heeling_moment_nm": ("highest heeling moment met", "moment"),
+    "running_share": ("rotors running", "percent"),
+    "free_share": ("running freely", "percent"),
+    "limited_share": ("running at a limit", "percent"),
+    "stopped_share": ("rotors stopped", "percent"),
+    "hours_at_sea_per_year": ("hours at sea per year", "duration"),
+    "annual_energy_saved_j": ("net energy saved per year", "energy"),
+    "annual_engine_energy_saved_j": ("engine energy saved per year", "energy"),
+    "annual_spin_energy_j": ("spin energy per year", "energy"),
+    "annual_fuel_saved_kg": ("fuel saved per year", "fuel_mass"),
+    "annual_co2_avoided_kg": ("CO₂ avoided per year", "fuel_mass"),
+    "annual_fuel_cost_saved": ("fuel cost saved per year", "money"),
+    "annual_carbon_cost_saved": ("carbon cost avoided per year", "money"),
+    "annual_cost_saved": ("money saved per year", "money"),
+    "payback_years": ("simple payback, years", "ratio"),
+    "discounted_payback_years": ("discounted payback, years", "ratio"),
+    "engine_power_share": ("share of main-engine power saved", "percent"),
+    "mean_ship_speed_m_s": ("ship speed, mean at sea", "ship_speed"),
+    "mean_true_wind_speed_m_s": ("true wind speed, mean at sea", "wind_speed"),
+    "rows": ("wind conditions or hours read", "ratio"),
+}
+#: Quantity kinds of the other tables' columns; shares of time are shown in %.
+COLUMN_UNITS = {
+    "true_wind_angle_deg": "angle", "true_wind_speed_m_s": "wind_speed", "net_power_w": "power",
+    "contribution_w": "power", "mean_net_power_w": "power", "energy_saved_j": "energy",
+    "diameter_m": "length", "height_m": "length", "rotors": "ratio", "installed_cost": "money",
+    "annual_fuel_saved_kg": "fuel_mass", "annual_co2_avoided_kg": "fuel_mass",
+    "annual_cost_saved": "money", "payback_years": "ratio",
+}
+SHARE_COLUMNS = ("share_of_time", "share_of_sea_time", "running_share")
+
+
+def tables_in_units(result: StudyResult, system: str) -> dict:
+    """The study's tables in ``system``'s units with the unit in each column name; the summary
+    as quantity, value, unit rows."""
+    s = result.detail.summary
+    rows = []
+    for key, (label, kind) in SUMMARY_UNITS.items():
+        v = getattr(s, key)
+        rows.append((label, 100.0 * v if kind == "percent" else v, kind))
+    out = {"summary": quantity_table(rows, system)}
+    for name, df in result.tables.items():
+        if name == "summary":
+            continue
+        df = df.copy()
+        kinds = {c: k for c, k in COLUMN_UNITS.items() if c in df.columns}
+        for c in SHARE_COLUMNS:
+            if c in df.columns:
+                df[c] = 100.0 * df[c]
+                kinds[c] = "percent"
+        out[name] = table_in_units(df, kinds, system).rename(columns=lambda c: c.replace("co2", "CO₂"))
     return out
