@@ -574,3 +574,24 @@ def test_number_steps_follow_the_default_in_the_display_unit():
     assert _auto_step(speed, "SI") == 0.1 and _auto_step(speed, "marine") == 0.1  # 8 m/s, 15.55 kn
     assert _auto_step(number("c", "Charnock", "ratio", 0.011), "SI") == 0.0001
     assert _auto_step(number("h_m", "Depth", "length", 0.0), "imperial") == 1.0
+
+
+def test_out_of_range_input_is_named_kept_and_holds_back_results():
+    # rule: a bad entry gets a message naming the field, the value and the range; nothing typed is lost
+    from liftcore.studies import flow as flow_study
+
+    at = AppTest.from_file(str(ROOT / "views" / "flow.py"), default_timeout=TIMEOUT)
+    at.run()
+    radius = flow_study.INPUTS.field("radius_m")
+    at.number_input(key="w:flow:radius_m:SI").set_value(-1.0).run()
+    assert not at.exception
+    messages = [e.value for e in at.error]
+    expected = (f"Cylinder radius must be between {radius.low:g} and {radius.high:g} m (got -1 m)"
+                if radius.label == "Cylinder radius" else None)
+    assert any("(got -1 m)" in m and "between" in m for m in messages), messages
+    if expected:
+        assert expected in messages
+    assert at.number_input(key="w:flow:radius_m:SI").value == -1.0  # kept as typed
+    assert len(at.metric) == 0  # no stale results beside a bad input
+    at.number_input(key="w:flow:radius_m:SI").set_value(0.25).run()
+    assert not at.error and len(at.metric) > 0

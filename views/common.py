@@ -122,20 +122,26 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
             shown = int(shown) if f.kind == "int" else float(shown)
             st.session_state[wkey] = shown
             st.session_state[_seed_key(wkey)] = shown
+        # No min/max on the widget: an out-of-range entry stays in the box as typed, and a
+        # message under it names the field, the value and the allowed range (the results wait).
         if f.kind == "int":
-            v = c.number_input(text, min_value=None if lo is None else int(lo),
-                               max_value=None if hi is None else int(hi), step=1, key=wkey,
-                               help=f.help or None)
-            st.session_state[skey] = int(v)
+            v = c.number_input(text, step=1, key=wkey, help=f.help or None)
         else:
             step = f.step if f.step is not None else _auto_step(f, system)
-            v = c.number_input(text, min_value=lo, max_value=hi, step=step, key=wkey,
-                               help=f.help or None, format=NUMBER_FORMAT)
-            # a widget still showing its seed keeps the exact core value (no drift on unit switches)
-            if st.session_state.get(_seed_key(wkey)) != v:
-                st.session_state[skey] = float(units.from_display(v, f.quantity, system))
-            elif skey not in st.session_state:
-                st.session_state[skey] = core_value
+            v = c.number_input(text, step=step, key=wkey, help=f.help or None, format=NUMBER_FORMAT)
+        candidate = int(v) if f.kind == "int" else float(units.from_display(v, f.quantity, system))
+        try:
+            f.validate(candidate, system)
+        except InputError as exc:
+            c.error(str(exc), icon=":material/error:")
+            _input_errors(spec.kind)[f.key] = str(exc)
+            return st.session_state.get(skey, f.default)
+        _input_errors(spec.kind).pop(f.key, None)
+        # a widget still showing its seed keeps the exact core value (no drift on unit switches)
+        if st.session_state.get(_seed_key(wkey)) != v:
+            st.session_state[skey] = candidate
+        elif skey not in st.session_state:
+            st.session_state[skey] = core_value
     elif f.kind == "choice":
         if wkey not in st.session_state:
             st.session_state[wkey] = core_value if core_value in f.choices else f.default
@@ -152,6 +158,26 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
         v = c.text_input(text, key=wkey, help=f.help or None)
         st.session_state[skey] = v
     return st.session_state[skey]
+
+
+def _input_errors(kind: str) -> dict:
+    """This session's inputs of ``kind`` that are out of range now: key -> message."""
+    return st.session_state.setdefault(f"_lc:input_errors:{kind}", {})
+
+
+def forget_input_error(kind: str, key: str) -> None:
+    """A hidden input keeps its last valid value; its old message no longer applies."""
+    _input_errors(kind).pop(key, None)
+
+
+def stop_on_input_errors(kind: str) -> None:
+    """Show what is out of range in the main area and stop before computing stale results."""
+    errors = _input_errors(kind)
+    if errors:
+        st.error("Some inputs are out of range, so no results are shown until they are fixed "
+                 "(what you typed is kept):\n\n" + "\n".join(f"- {m}" for m in errors.values()),
+                 icon=":material/error:")
+        st.stop()
 
 
 def _tidy(x: float) -> float:
@@ -222,6 +248,12 @@ def render_inputs(spec: InputSpec, container=None, skip=(), show_if=None) -> dic
                 # decided again here: a choice just above in this section may have changed `values`
                 if visible(f):
                     values[f.key] = input_widget(spec, f)
+                else:
+                    forget_input_error(spec.kind, f.key)
+    for section, fields in spec.sections():
+        for f in fields:
+            if f.key not in skip and not visible(f):
+                forget_input_error(spec.kind, f.key)
     return values
 
 
@@ -243,11 +275,16 @@ def _cache_key(kind: str, values: dict, extra) -> str:
     return h.hexdigest()
 
 
-def run_cached(kind: str, values: dict, extra=None, label: str = "Computing") -> StudyResult:
+def run_cached(kind: str, values: dict, extra=None, label: str = "Computing",
+               check_inputs: bool = True) -> StudyResult:
     """Run a study through the shared result cache, with a progress bar while it works.
 
     Results are immutable and keyed by every input, so sessions never see each other's inputs.
+    With ``check_inputs`` (the study's own page) it stops the page with a clear message while any
+    input of ``kind`` typed on that page is out of range.
     """
+    if check_inputs:
+        stop_on_input_errors(kind)
     key = _cache_key(kind, values, extra)
     with _CACHE_LOCK:
         if key in _CACHE:
