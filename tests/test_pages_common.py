@@ -586,11 +586,7 @@ def test_out_of_range_input_is_named_kept_and_holds_back_results():
     at.number_input(key="w:flow:radius_m:SI").set_value(-1.0).run()
     assert not at.exception
     messages = [e.value for e in at.error]
-    expected = (f"Cylinder radius must be between {radius.low:g} and {radius.high:g} m (got -1 m)"
-                if radius.label == "Cylinder radius" else None)
-    assert any("(got -1 m)" in m and "between" in m for m in messages), messages
-    if expected:
-        assert expected in messages
+    assert f"{radius.label} must be between {radius.low:g} and {radius.high:g} m (got -1 m)" in messages
     assert at.number_input(key="w:flow:radius_m:SI").value == -1.0  # kept as typed
     assert len(at.metric) == 0  # no stale results beside a bad input
     at.number_input(key="w:flow:radius_m:SI").set_value(0.25).run()
