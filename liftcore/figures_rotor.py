@@ -24,6 +24,11 @@ _WHICH = {
 }
 
 
+#: Marks a trace that gives context to one option's chart (data spread, zero line, current
+#: point); charts that overlay several options leave such traces out.
+CONTEXT = "context"
+
+
 def _disp(value, kind, system):
     return units.to_display(np.asarray(value, dtype=float), kind, system)
 
@@ -126,7 +131,7 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
             fig.add_trace(go.Scatterpolar(r=np.concatenate([lo, hi[::-1]]), theta=np.concatenate([theta, theta[::-1]]),
                                           fill="toself", fillcolor="rgba(86,180,233,0.25)", line=dict(width=0),
                                           name="Spread between data sets", hoverinfo="skip",
-                                          showlegend=col == 1, subplot=polar))
+                                          showlegend=col == 1, subplot=polar, meta=CONTEXT))
         r = _disp(getattr(chosen.sweep, attr), kind, system)
         fig.add_trace(go.Scatterpolar(r=r, theta=theta, mode="lines", name=chosen.coefficients.label,
                                       line=dict(color=colour(0), width=LINE_WIDTH), showlegend=col == 1,
@@ -135,6 +140,7 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
         now = float(_disp(getattr(detail.operation, attr), kind, system))
         fig.add_trace(go.Scatterpolar(r=[now], theta=[detail.true_wind_angle_deg], mode="markers",
                                       name="Current true wind angle", showlegend=col == 1, subplot=polar,
+                                      meta=CONTEXT,
                                       marker=dict(symbol="diamond", size=16, color="#D55E00",
                                                   line=dict(width=2, color="#000"))))
         rmin = min(0.0, float(np.min([np.min(v) for v in r_all] + [now])))
@@ -142,7 +148,7 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
         pad = 0.08 * (rmax - rmin)
         fig.add_trace(go.Scatterpolar(r=np.zeros(73), theta=np.linspace(-180, 180, 73), mode="lines",
                                       line=dict(color="#444", width=1.5, dash="dot"), name="Zero",
-                                      showlegend=col == 1, hoverinfo="skip", subplot=polar))
+                                      showlegend=col == 1, hoverinfo="skip", subplot=polar, meta=CONTEXT))
         fig.update_layout({polar: dict(
             angularaxis=dict(rotation=90, direction="clockwise", tickmode="array",
                              tickvals=[0, 45, 90, 135, 180, 225, 270, 315],

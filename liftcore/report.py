@@ -248,6 +248,8 @@ def overlay_figure(runs: list[Run], system: str = "SI"):
         if not any(listed) and listed:
             listed[0] = True
         for j, t in enumerate(fig.data):
+            if t.meta == "context" and len(runs) > 1:  # one option's context (spread, zero line)
+                continue
             t = go.Figure(data=[t]).data[0]  # a detached copy
             name = f"{r.name} · {t.name}" if t.name else r.name
             t.update(name=name, legendgroup=r.name, showlegend=listed[j])

@@ -301,3 +301,16 @@ def test_overlaid_options_are_not_cut_off_at_the_first_options_range():
     _, fig = rp.overlay_figure(runs, "SI")
     assert fig.layout.xaxis.range is None and fig.layout.xaxis.autorange is True
     assert max(max(t.x) for t in fig.data if t.name == "Large loops · each loop") == pytest.approx(0.28)
+
+
+def test_rotor_options_compare_round_the_compass_without_per_option_context():
+    # the overlay keeps one curve per option and chart panel; spread bands, zero lines and the
+    # current point belong to a single option's chart
+    from liftcore.studies import run_study
+
+    runs = [report.Run(name, "rotor", {"diameter_m": d}, run_study("rotor", {"diameter_m": d}), "")
+            for name, d in (("five", 5.0), ("four", 4.0))]
+    title, fig = report.overlay_figure(runs)
+    assert title.startswith("Thrust and net power gain around the compass")
+    assert len(fig.data) == 2 * 2  # two options x (thrust, net gain)
+    assert {t.legendgroup for t in fig.data} == {"five", "four"}

@@ -25,6 +25,9 @@ from liftcore.validity import merge
 
 KIND = "rotor"
 TITLE = "Rotor sail on a ship"
+#: Options are compared by thrust and net gain round the compass (the coefficient charts look
+#: alike for any rotor size).
+COMPARE_FIGURE = "Thrust and net power gain around the compass"
 
 _CONDITION_FIELDS = (
     number("ship_speed_m_s", "Ship speed", "ship_speed", 12.0 * KNOT_M_S, 0.0, 30.0 * KNOT_M_S,
