@@ -308,9 +308,9 @@ def test_rotor_options_compare_round_the_compass_without_per_option_context():
     # current point belong to a single option's chart
     from liftcore.studies import run_study
 
-    runs = [report.Run(name, "rotor", {"diameter_m": d}, run_study("rotor", {"diameter_m": d}), "")
+    runs = [rp.Run(name, "rotor", {"diameter_m": d}, run_study("rotor", {"diameter_m": d}), "")
             for name, d in (("five", 5.0), ("four", 4.0))]
-    title, fig = report.overlay_figure(runs)
+    title, fig = rp.overlay_figure(runs)
     assert title.startswith("Thrust and net power gain around the compass")
     assert len(fig.data) == 2 * 2  # two options x (thrust, net gain)
     assert {t.legendgroup for t in fig.data} == {"five", "four"}
