@@ -445,6 +445,8 @@ def scenario_report(s: Scenario, result: StudyResult, unit_system: str | None = 
     system = unit_system or s.unit_system
     mod = study(s.kind)
     title = s.title or mod.TITLE
+    if not data_note and callable(getattr(mod, "data_note", None)):
+        data_note = mod.data_note(result)  # e.g. which wind data a voyage used
     cautions, sources = _sources_cautions(s.kind)
     figs = "".join(f"<figure class=\"chart\">{_figure_html(fig, f'fig{i}')}<figcaption>{_e(t)}</figcaption></figure>"
                    for i, (t, fig) in enumerate(figures_for(s.kind, result, system)))

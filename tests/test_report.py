@@ -314,3 +314,13 @@ def test_rotor_options_compare_round_the_compass_without_per_option_context():
     assert title.startswith("Thrust and net power gain around the compass")
     assert len(fig.data) == 2 * 2  # two options x (thrust, net gain)
     assert {t.legendgroup for t in fig.data} == {"five", "four"}
+
+
+def test_voyage_report_says_which_wind_it_used():
+    from liftcore.studies import run_study
+
+    result = run_study("voyage", {"sweep": False})
+    html = rp.scenario_report(sc.Scenario(kind="voyage", inputs=result.inputs), result)
+    # the same sentence the page shows under its title, built from the run itself
+    assert f"{result.detail.conditions:,} wind conditions" in html
+    assert result.detail.wind_source in html

@@ -93,11 +93,7 @@ except InputError as exc:
 
 d = result.detail
 s = d.summary
-hours_note = ("from the series" if d.hours_source == "from the series" else "as entered")
-st.caption(f"Wind: {d.wind_source}, {d.conditions:,} "
-           f"{'hourly rows' if kind == 'series' else 'wind conditions'}; "
-           f"{s.hours_at_sea_per_year:,.0f} h at sea per year ({hours_note}); computed {d.engine}. "
-           f"Coefficient set: {d.coefficient_set['label']}.")
+st.caption(study.data_note(result))
 
 show_headlines(result, keys=("mean_net_power", "annual_fuel_saved", "annual_co2_avoided",
                              "annual_cost_saved"))

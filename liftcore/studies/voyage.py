@@ -495,3 +495,14 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
                 kinds[c] = "percent"
         out[name] = table_in_units(df, kinds, system).rename(columns=lambda c: c.replace("co2", "CO₂"))
     return out
+
+
+def data_note(result: StudyResult) -> str:
+    """Which wind data and hours the result rests on (the page caption and the handout report)."""
+    d = result.detail
+    s = d.summary
+    hours_note = "from the series" if d.hours_source == "from the series" else "as entered"
+    rows = "hourly rows" if d.wind_kind == "series" else "wind conditions"
+    return (f"Wind: {d.wind_source}, {d.conditions:,} {rows}; {s.hours_at_sea_per_year:,.0f} h at "
+            f"sea per year ({hours_note}); computed {d.engine}. Coefficient set: "
+            f"{d.coefficient_set['label']}.")
