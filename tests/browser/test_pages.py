@@ -10,7 +10,8 @@ from views import PAGES
 def test_page_renders_without_exception(app_url, browser, shots_dir, url_path):
     page = browser.new_page(viewport={"width": 1600, "height": 1000})
     try:
-        page.goto(f"{app_url}/{url_path}")
+        # the default page lives at the app's root address
+        page.goto(f"{app_url}/" if url_path == PAGES[0][2] else f"{app_url}/{url_path}")
         wait_for_app(page)
         exceptions = page.locator('[data-testid="stException"]')
         assert exceptions.count() == 0, exceptions.first.inner_text()
