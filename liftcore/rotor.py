@@ -77,20 +77,30 @@ DISC_MOMENT_CONSTANT = 0.146
 #: Ship Report 142) were first computed for Re = 1e5 to 1e9.
 FRICTION_RE_MIN = 1.0e5
 
-#: Best-spin search (see :func:`best_operation`): grid points over the whole spin range, cells
-#: between them refined per condition, and the tolerance on the angular speed, relative to the
-#: top of the range, to which a maximum or a limit boundary is located.
+#: Best-spin search (see :func:`best_operation`). Grid points over the whole spin range.
 BEST_GRID_POINTS = 25
+#: A maximum or a limit boundary is located to this fraction of the top of the spin range.
 BEST_SPIN_XTOL = 1e-9
+#: Net gains closer than this fraction of the largest |net gain| on the grid count as equal (a
+#: bump predicted to rise less is not pursued).
 BEST_SPIN_FTOL = 1e-11
-BUMP_BOUND_FACTOR = 2.0
+#: A limit boundary is also taken as found where the limit margin is within this of zero.
 BOUNDARY_MARGIN_TOL = 1e-12
+#: Safety factor on the bound of what bends at table points add between grid points (it leaves
+#: out fourth- and higher-order terms and the cubic's error on the smooth part).
+BUMP_BOUND_FACTOR = 2.0
+#: Largest error of the cubic through the values and slopes at 0 and 1 when the function is
+#: (x - x0)_+^k / k! for some x0 in [0, 1], k = 1, 2, 3 (4/27 and 1/192 exactly, the middle one
+#: rounded up; found numerically, checked by a test).
+HERMITE_KINK_ERROR = (4.0 / 27.0, 1.0 / 61.9, 1.0 / 192.0)
+#: Most points sampled inside one cell (only very fine user tables reach it).
 BREAKPOINTS_MAX = 64
+#: Safeguards on the iterations (each halves its bracket at least every second step).
 BOUNDARY_STEPS_MAX = 100
 REFINE_STEPS_MAX = 100
-#: Conditions solved together in the best-spin search (bounds the memory of one call), and
-#: strip evaluations per array operation in it (keeps the temporaries in the processor's cache).
-BLOCK = 8192
+#: Conditions solved together (bounds the memory of one call), and strip evaluations per array
+#: operation in the search (keeps the temporaries in the processor's cache).
+BLOCK = 2048
 CHUNK_ELEMENTS = 32768
 
 #: Thresholds of the "unlike the tested rotor" warnings (our choice, not from a source).
@@ -585,14 +595,28 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     -----
     The operating spin ratio is searched in [0, SR_top] with SR_top the smallest of the highest
     spin ratio allowed, the top of the coefficient data and the spin ratio of the maximum rpm.
-    The motor-power and heeling-moment limits are constraints. All conditions are solved at once
-    (no loop over conditions): a grid of ``BEST_GRID_POINTS`` spin ratios per condition gives the
-    best grid point that keeps the limits; a bisection locates the limit boundary between the two
-    grid points where a limit starts (or stops) binding with the most net gain beside it; a fine
-    grid of ``FINE_GRID_POINTS`` between the best grid point's neighbours (cut at that boundary)
-    and a golden-section search around the best fine point refine it; the best of these
-    candidates is kept. A stopped rotor (SR = 0; its drag as a still
-    cylinder is counted) is always allowed and is chosen when no spin pays more.
+    The motor-power and heeling-moment limits are constraints; a stopped rotor (SR = 0; its drag
+    as a still cylinder is counted) is always allowed and is chosen when no spin pays more. All
+    conditions are solved together (no loop over conditions).
+
+    Along the spin the net gain is smooth except where a strip's spin ratio crosses a point of
+    the coefficient table: the monotone cubic's curvature jumps there, and near the top of the
+    net gain such bends make close local maxima. The search:
+
+    1. evaluates the net gain and its slope on ``BEST_GRID_POINTS`` spins (the table's cubic
+       pieces are looked up directly, with their slopes);
+    2. keeps the grid cells where the cubic through the cell's ends (values and slopes), plus
+       ``BUMP_BOUND_FACTOR`` times a bound on what the bends crossed inside can add (from the
+       sharpest jumps of the table's derivatives), may rise above the best grid point that
+       keeps the limits; adds stretches that keep the limits between grid points that break
+       them (a heeling moment that falls and rises again: the limit margin is minimised);
+    3. where a limit starts binding inside a cell, finds the boundary (regula falsi, Illinois)
+       and keeps the part of the cell within the limits;
+    4. evaluates the net gain and its slope at every crossing inside those cells, so that each
+       sub-interval is smooth, and refines the sub-interval whose cubic peaks highest (cubic
+       interpolation steps safeguarded by bisection) to ``BEST_SPIN_XTOL`` of the spin range or
+       until the predicted rise is below ``BEST_SPIN_FTOL`` of the largest |net gain|;
+    5. keeps the best of all points met that keep the limits.
 
     Parameters
     ----------
@@ -610,10 +634,12 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     for start in range(0, n, BLOCK):
         sl = slice(start, min(n, start + BLOCK))
         report = None
-        if progress is not None:
+        if progress is not None and n > BLOCK:
             def report(part, start=start, stop=sl.stop):
                 progress(min(1.0, (start + part * (stop - start)) / n), f"Best spin for {n:,} conditions")
         omega[sl] = _best_omega(setup, _wind_part(w, sl), pieces, report)
+        if report is not None:
+            report(1.0)
     res = _evaluate(setup, w, omega)
     rpm_v = omega * _RPM_PER_RAD_S
     sr_op = np.where(w.va_mid > CALM_M_S, omega * setup.radius_m / np.where(w.va_mid > CALM_M_S, w.va_mid, 1.0), 0.0)
@@ -759,9 +785,6 @@ class _Pieces:
               2: 2.0 * (2.0 * cl1 * jump[1, :, 0] + cl * jump[2, :, 0]),
               3: 2.0 * (3.0 * (cl1 * jump[2, :, 0] + cl2 * jump[1, :, 0]) + cl * jump[3, :, 0])}
         self.sharpest = {k: np.append(jump[k].max(axis=0), sq[k].max()) for k in (1, 2, 3)}
-        # running sums of the second-derivative jumps (row j: points 0 .. j-1), one row per curve
-        per = np.column_stack([jump[2], sq[2]])
-        self.sums2 = np.vstack([np.zeros((1, cols + 1)), np.cumsum(per, axis=0)]).T.copy()
         self.min_step = float(np.diff(x).min())
 
     def piece(self, s):
@@ -1030,51 +1053,45 @@ def _breakpoints(pieces: _Pieces, u, a, b):
 
 
 def _bend_weight(pieces: _Pieces, prob: _SpinProblem, h):
-    """Per strip, the most one crossing of a table point can make the net gain depart from the
-    cubic through the ends of a cell of width ``h``, (strips, N), and the same without the
-    second-derivative term (see :func:`_bend_bound`)."""
+    """Per strip and condition, the most that one crossing of a table point inside a cell of
+    width ``h`` can make the net gain depart from the cubic through the cell's ends: (any
+    crossing, extra where the crossing is an end of the table). See :func:`_bend_bound`."""
     u = prob.u
     wl, wd = np.abs(prob.wl), np.abs(prob.wd)
     wp = np.abs(prob.power_weight * prob.pp) if prob.pp is not None else None
     sq = 2.0 * abs(prob.kar)
     terms = {}
-    for order, c in ((1, 4.0 / 27.0), (2, 1.0 / 62.0), (3, 1.0 / 192.0)):
+    for order, c in zip((1, 2, 3), HERMITE_KINK_ERROR):
         most = pieces.sharpest[order]
         weight = wl * most[0] + wd * (most[1] + sq * most[-1])
         if wp is not None:
             weight = weight + wp * most[2]
         terms[order] = c * (h * u) ** order * weight
-    return terms[1] + terms[2] + terms[3], terms[1], terms[3]
+    return terms[2] + terms[3], terms[1]
 
 
-def _bend_bound(pieces: _Pieces, prob: _SpinProblem, kink, third, a, b):
+def _bend_bound(pieces: _Pieces, u, bend, kink, a, b):
     """Upper bound on how far the net gain departs, inside each cell [a, b], from the cubic
-    through its ends' values and slopes, from the bends where strips cross table points.
+    through its ends' values and slopes, because of the bends where strips cross table points.
 
     Each crossing adds to the net gain a term that starts there with a jump J_k in its k-th
     derivative (k = 1 only where the table ends and its values are held, then 2 and 3). The
-    cubic through the cell's ends misses such a term by at most J_k h^k c_k, with h = b - a and
-    c_1 = 4/27, c_2 = 1/62, c_3 = 1/192 (the largest error of cubic Hermite interpolation of
-    (x - x0)_+^k / k! on a unit interval, found numerically). J_2 is the sum over the crossed
-    table points of the jumps of CL, CD, CP and CL^2 times the strip's weights and
-    (d SR / d omega)^2; for k = 1 (``kink``, only at the ends of the table) and k = 3
-    (``third``), per strip from :func:`_bend_weight`, the sharpest jumps of the table stand in.
-    Terms of fourth and higher order and the cubic's error on the smooth part are left out: the
-    caller applies a safety factor.
+    cubic through the cell's ends misses such a term by at most c_k J_k h^k, h = b - a, with
+    c_k = ``HERMITE_KINK_ERROR`` (the largest error of cubic Hermite interpolation of
+    (x - x0)_+^k / k! on a unit interval: 4/27, 1/61.9 and 1/192, found numerically; a test
+    checks them). J_k is at most the sharpest jump of
+    CL, CD, CP and CL^2 in the table times the strip's weights and (d SR / d omega)^k: ``bend``
+    and ``kink`` per strip from :func:`_bend_weight`, times the crossings counted here. Terms of
+    fourth and higher order and the cubic's error on the smooth part are left out: the caller
+    applies a safety factor.
     """
-    u = prob.u
     first, last = pieces.knots_inside(u * a, u * b)                  # (strips, cells)
     first = np.clip(first, 0, pieces.x.size)
     stop = np.clip(last + 1, first, pieces.x.size)
-    run = np.take(pieces.sums2, stop, axis=1) - np.take(pieces.sums2, first, axis=1)
-    weight = np.abs(prob.wl) * run[0] + np.abs(prob.wd) * (run[1] + 2.0 * abs(prob.kar) * run[-1])
-    if prob.pp is not None:
-        weight += np.abs(prob.power_weight * prob.pp) * run[2]
-    second = weight * (u * (b - a)) ** 2 / 62.0
     ends = stop == pieces.x.size                                     # crosses the top of the table
     if pieces.lo > 0.0:
         ends = ends | ((first == 0) & (stop > 0))                   # ... or its held bottom
-    return (second + (stop - first) * third + ends * kink).sum(axis=0)
+    return ((stop - first) * bend + ends * kink).sum(axis=0)
 
 
 def _limit_windows(setup, pieces, prob, x, margin, tol):
@@ -1137,7 +1154,7 @@ def _limit_boundary(setup, pieces, prob, keep, m_keep, brk, m_brk, tol):
     out = keep.copy()
     for _ in range(BOUNDARY_STEPS_MAX):
         width = np.abs(brk - keep)
-        live = (width > tol) & (m_keep < -BOUNDARY_MARGIN_TOL)      # (m_keep <= -_MARGIN_ROUNDING)
+        live = (width > tol) & (m_keep < -BOUNDARY_MARGIN_TOL)
         if not live.any():
             break
         if live.sum() < 0.5 * live.size:                             # drop the finished ones
@@ -1266,11 +1283,12 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
     high = np.maximum(pv, np.maximum(f[:-1], f[1:]))
     usable = (ok[:-1] | ok[1:]) & (top > 0.0)
     h = top / (k - 1)
-    weight, kink, third = _bend_weight(pieces, prob, h)              # (strips, N)
-    most = np.floor(h * prob.u / pieces.min_step) + 1.0              # crossings that fit in a cell
-    cap = BUMP_BOUND_FACTOR * (most * weight).sum(axis=0)
+    bend, kink = _bend_weight(pieces, prob, h)                       # (strips, N)
+    # first a cap: every strip crosses each table point that any strip crosses in the cell
+    first, last = pieces.knots_inside(x[:-1] * prob.u.min(axis=0), x[1:] * prob.u.max(axis=0))
+    cap = BUMP_BOUND_FACTOR * (np.maximum(last - first + 1, 0) * bend.sum(axis=0) + kink.sum(axis=0))
     rows, cond = np.nonzero(usable & (high + cap > best_f))
-    bound = BUMP_BOUND_FACTOR * _bend_bound(pieces, prob.take(cond), kink[:, cond], third[:, cond],
+    bound = BUMP_BOUND_FACTOR * _bend_bound(pieces, prob.u[:, cond], bend[:, cond], kink[:, cond],
                                             x[rows, cond], x[rows + 1, cond])
     keep = high[rows, cond] + bound > best_f[cond]
     rows, cond = rows[keep], cond[keep]
@@ -1318,38 +1336,38 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         #    between these points it is smooth and the cubic through neighbours models it
         #    closely. Cells with as many such points are evaluated together.
         pts, count = _breakpoints(pieces, pe.u, a, b)
-        rows = pts.shape[0]
-        xs = np.vstack([a, np.where(np.isnan(pts), b, pts), b])
-        fs = np.vstack([fa, np.broadcast_to(fb, (rows, b.size)), fb])
-        ds = np.vstack([da, np.broadcast_to(db, (rows, b.size)), db])
-        ms = np.vstack([ma, np.broadcast_to(mb, (rows, b.size)), mb])
         order = np.argsort(count, kind="stable")
         counts = count[order]
         ps = pe.take(order)
-        starts = np.searchsorted(counts, np.arange(counts[-1] + 1 if counts.size else 0))
-        for c in range(1, counts[-1] + 1 if counts.size else 0):
-            lo, hi = starts[c], (starts[c + 1] if c + 1 < starts.size else counts.size)
-            if hi > lo:
-                sel = order[lo:hi]
-                fz, dz, mz = _values(setup, pieces, ps.take(slice(lo, hi)), xs[1:c + 1, sel])
-                fs[1:c + 1, sel], ds[1:c + 1, sel], ms[1:c + 1, sel] = fz, dz, mz
-        oks = ms <= 0.0
-        if rows:
-            inner = np.where(oks[1:-1], fs[1:-1], -np.inf)
-            j = np.argmax(inner, axis=0)
-            ent = np.arange(cond.size)
-            cand.append((cond, xs[1 + j, ent], inner[j, ent]))
+        starts = np.searchsorted(counts, np.arange(counts[-1] + 2))
+        found = []                                                   # best sub-interval per entry
+        for c in range(counts[-1] + 1):
+            lo, hi = starts[c], starts[c + 1]
+            if hi == lo:
+                continue
+            sel = order[lo:hi]
+            xs = np.vstack([a[sel], pts[:c, sel], b[sel]])
+            fs, ds, ms = np.vstack([fa[sel], fb[sel]]), np.vstack([da[sel], db[sel]]), np.vstack([ma[sel], mb[sel]])
+            if c:
+                fz, dz, mz = _values(setup, pieces, ps.take(slice(lo, hi)), xs[1:-1])
+                fs, ds, ms = (np.vstack([u[:1], v, u[1:]]) for u, v in ((fs, fz), (ds, dz), (ms, mz)))
+                inner = np.where(mz <= 0.0, fz, -np.inf)
+                j = np.argmax(inner, axis=0)
+                ent = np.arange(sel.size)
+                cand.append((cond[sel], xs[1 + j, ent], inner[j, ent]))
+            # 5. the sub-interval whose cubic peaks highest (refined below)
+            sub = _cell_peaks(xs, fs, ds, ms <= 0.0)
+            r = np.argmax(sub, axis=0)
+            ent = np.arange(sel.size)
+            live = np.isfinite(sub[r, ent])
+            r, ent = r[live], ent[live]
+            found.append((sel[live], xs[r, ent], xs[r + 1, ent], fs[r, ent], fs[r + 1, ent], ds[r, ent],
+                          ds[r + 1, ent]))
         if progress is not None:
             progress(0.9)
-
-        # 5. the sub-interval whose cubic peaks highest, refined to the tolerance
-        sub = _cell_peaks(xs, fs, ds, oks)
-        s = np.argmax(sub, axis=0)
-        live = np.flatnonzero(np.isfinite(sub[s, np.arange(cond.size)]))
+        live, p, q, fp, fq, dp, dq = (np.concatenate(parts) for parts in zip(*found))
         if live.size:
-            s = s[live]
-            rx, rf = _refine(setup, pieces, pe.take(live), te[live], ftol[cond[live]], xs[s, live], xs[s + 1, live],
-                             fs[s, live], fs[s + 1, live], ds[s, live], ds[s + 1, live])
+            rx, rf = _refine(setup, pieces, pe.take(live), te[live], ftol[cond[live]], p, q, fp, fq, dp, dq)
             cand.append((cond[live], rx, rf))
 
     # 6. the best candidate of each condition (every condition has its grid point)
