@@ -44,6 +44,7 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
+from scipy.interpolate import PchipInterpolator
 
 from liftcore import coefficients as coef
 from liftcore import wind
@@ -76,15 +77,31 @@ DISC_MOMENT_CONSTANT = 0.146
 #: Ship Report 142) were first computed for Re = 1e5 to 1e9.
 FRICTION_RE_MIN = 1.0e5
 
-#: Best-spin search: coarse grid over the whole spin range, fine grid between the best coarse
-#: point's neighbours, golden-section steps after it and bisection steps for a limit boundary.
+#: Best-spin search (see :func:`best_operation`). Grid points over the whole spin range.
 BEST_GRID_POINTS = 25
-FINE_GRID_POINTS = 13
-GOLDEN_STEPS = 20
-BOUNDARY_STEPS = 24
-#: Conditions evaluated per block in the best-spin search (keeps grid x block x strips arrays
-#: small enough to stay in cache).
-BLOCK = 512
+#: A maximum or a limit boundary is located to this fraction of the top of the spin range.
+BEST_SPIN_XTOL = 1e-9
+#: Net gains closer than this fraction of the largest |net gain| on the grid count as equal (a
+#: bump predicted to rise less is not pursued).
+BEST_SPIN_FTOL = 1e-11
+#: A limit boundary is also taken as found where the limit margin is within this of zero.
+BOUNDARY_MARGIN_TOL = 1e-12
+#: Safety factor on the bound of what bends at table points add between grid points (it leaves
+#: out fourth- and higher-order terms and the cubic's error on the smooth part).
+BUMP_BOUND_FACTOR = 2.0
+#: Largest error of the cubic through the values and slopes at 0 and 1 when the function is
+#: (x - x0)_+^k / k! for some x0 in [0, 1], k = 1, 2, 3 (4/27 and 1/192 exactly, the middle one
+#: rounded up; found numerically, checked by a test).
+HERMITE_KINK_ERROR = (4.0 / 27.0, 1.0 / 61.9, 1.0 / 192.0)
+#: Most points sampled inside one cell (only very fine user tables reach it).
+BREAKPOINTS_MAX = 64
+#: Safeguards on the iterations (each halves its bracket at least every second step).
+BOUNDARY_STEPS_MAX = 100
+REFINE_STEPS_MAX = 100
+#: Conditions solved together (bounds the memory of one call), and strip evaluations per array
+#: operation in the search (keeps the temporaries in the processor's cache).
+BLOCK = 2048
+CHUNK_ELEMENTS = 32768
 
 #: Thresholds of the "unlike the tested rotor" warnings (our choice, not from a source).
 ASPECT_RATIO_TOLERANCE = 1.5     # warn when H/D differs from the set's by more than this factor
@@ -92,7 +109,16 @@ END_PLATE_TOLERANCE = 0.25       # warn when De/D differs from the set's by more
 #: Apparent wind speeds below this are treated as calm (rotor stopped, no forces). [m/s]
 CALM_M_S = 1e-6
 
-_GOLDEN = (math.sqrt(5.0) - 1.0) / 2.0
+#: Relative slack on the motor-power and heel limits (rounding), as in :func:`_feasible`.
+_LIMIT_REL = 1e-9
+#: Largest look-up table for the pieces of a coefficient table with uneven spin-ratio steps.
+_LOOKUP_CELLS_MAX = 100_000
+#: Relative offset of the two points placed either side of a slope jump (where a strip's spin
+#: ratio leaves the table); well above rounding (1e-16), far below the search tolerance.
+_KINK_SPLIT = 1e-12
+#: A limit boundary is placed this far (relative to the limit) on the keeping side, so that the
+#: rounding of a later evaluation (sums taken in another order) cannot put it outside.
+_MARGIN_ROUNDING = 1e-13
 _RPM_PER_RAD_S = 60.0 / (2.0 * math.pi)
 
 
@@ -466,6 +492,11 @@ def _wind(setup: RotorSetup, vs, vt, g) -> _Wind:
                  beta_mid=beta_mid, va_ref=va_ref, beta_ref=beta_ref)
 
 
+def _wind_part(w: _Wind, part) -> _Wind:
+    """The wind of some of the conditions (a slice gives views)."""
+    return _Wind(**{name: getattr(w, name)[part] for name in w.__dataclass_fields__})
+
+
 def _evaluate(setup: RotorSetup, w: _Wind, omega):
     """Totals for angular speeds ``omega`` of shape (..., N). Returns a dict of (..., N) arrays."""
     omega = np.asarray(omega, dtype=float)
@@ -504,17 +535,6 @@ def _feasible(setup: RotorSetup, res: dict, rel: float = 1e-9):
     ok_p = res["power1"] <= setup.max_motor_power_w * (1 + rel)
     ok_h = np.abs(res["heel"]) <= setup.max_heeling_moment_nm * (1 + rel)
     return ok_p & ok_h
-
-
-def _search(setup: RotorSetup, w: _Wind, omega):
-    """(net gain, within the motor-power and heel limits) for angular speeds (..., N)."""
-    res = _evaluate(setup, w, omega)
-    return res["net"], _feasible(setup, res)
-
-
-def _take(w: _Wind, idx) -> _Wind:
-    """The wind of a subset of the conditions."""
-    return _Wind(**{name: getattr(w, name)[idx] for name in w.__dataclass_fields__})
 
 
 def _prepare(ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad, *extra):
@@ -575,14 +595,28 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     -----
     The operating spin ratio is searched in [0, SR_top] with SR_top the smallest of the highest
     spin ratio allowed, the top of the coefficient data and the spin ratio of the maximum rpm.
-    The motor-power and heeling-moment limits are constraints. All conditions are solved at once
-    (no loop over conditions): a grid of ``BEST_GRID_POINTS`` spin ratios per condition gives the
-    best grid point that keeps the limits; a bisection locates the limit boundary between the two
-    grid points where a limit starts (or stops) binding with the most net gain beside it; a fine
-    grid of ``FINE_GRID_POINTS`` between the best grid point's neighbours (cut at that boundary)
-    and a golden-section search around the best fine point refine it; the best of these
-    candidates is kept. A stopped rotor (SR = 0; its drag as a still
-    cylinder is counted) is always allowed and is chosen when no spin pays more.
+    The motor-power and heeling-moment limits are constraints; a stopped rotor (SR = 0; its drag
+    as a still cylinder is counted) is always allowed and is chosen when no spin pays more. All
+    conditions are solved together (no loop over conditions).
+
+    Along the spin the net gain is smooth except where a strip's spin ratio crosses a point of
+    the coefficient table: the monotone cubic's curvature jumps there, and near the top of the
+    net gain such bends make close local maxima. The search:
+
+    1. evaluates the net gain and its slope on ``BEST_GRID_POINTS`` spins (the table's cubic
+       pieces are looked up directly, with their slopes);
+    2. keeps the grid cells where the cubic through the cell's ends (values and slopes), plus
+       ``BUMP_BOUND_FACTOR`` times a bound on what the bends crossed inside can add (from the
+       sharpest jumps of the table's derivatives), may rise above the best grid point that
+       keeps the limits; adds stretches that keep the limits between grid points that break
+       them (a heeling moment that falls and rises again: the limit margin is minimised);
+    3. where a limit starts binding inside a cell, finds the boundary (regula falsi, Illinois)
+       and keeps the part of the cell within the limits;
+    4. evaluates the net gain and its slope at every crossing inside those cells, so that each
+       sub-interval is smooth, and refines the sub-interval whose cubic peaks highest (cubic
+       interpolation steps safeguarded by bisection) to ``BEST_SPIN_XTOL`` of the spin range or
+       until the predicted rise is below ``BEST_SPIN_FTOL`` of the largest |net gain|;
+    5. keeps the best of all points met that keep the limits.
 
     Parameters
     ----------
@@ -595,13 +629,17 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     shape, (vs, vt, g) = _prepare(ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad)
     n = vs.size
     omega = np.empty(n)
+    pieces = _Pieces(setup.coefficients)
+    w = _wind(setup, vs, vt, g)
     for start in range(0, n, BLOCK):
         sl = slice(start, min(n, start + BLOCK))
-        w = _wind(setup, vs[sl], vt[sl], g[sl])
-        omega[sl] = _best_omega(setup, w)
+        report = None
         if progress is not None and n > BLOCK:
-            progress(min(1.0, sl.stop / n), f"Best spin for {n:,} conditions")
-    w = _wind(setup, vs, vt, g)
+            def report(part, start=start, stop=sl.stop):
+                progress(min(1.0, (start + part * (stop - start)) / n), f"Best spin for {n:,} conditions")
+        omega[sl] = _best_omega(setup, _wind_part(w, sl), pieces, report)
+        if report is not None:
+            report(1.0)
     res = _evaluate(setup, w, omega)
     rpm_v = omega * _RPM_PER_RAD_S
     sr_op = np.where(w.va_mid > CALM_M_S, omega * setup.radius_m / np.where(w.va_mid > CALM_M_S, w.va_mid, 1.0), 0.0)
@@ -619,87 +657,6 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     within = (res["power1"] <= setup.max_motor_power_w * (1 + 1e-6)) & (
         (np.abs(res["heel"]) <= setup.max_heeling_moment_nm * (1 + 1e-6)) | ~running)
     return _finish(setup, w, omega, res, state, flags, within, shape, mode="best")
-
-
-def _best_omega(setup: RotorSetup, w: _Wind) -> np.ndarray:
-    """Best angular speed for each condition of a block (vectorised search, see best_operation)."""
-    r = setup.radius_m
-    va = w.va_mid
-    calm = va <= CALM_M_S
-    va_safe = np.where(calm, 1.0, va)
-    omega_top = np.minimum(setup.spin_ratio_limit() * va_safe / r, setup.max_rpm / _RPM_PER_RAD_S)
-    omega_top = np.where(calm, 0.0, omega_top)
-    k = BEST_GRID_POINTS
-    grid = np.linspace(0.0, 1.0, k)[:, None] * omega_top[None, :]        # (K, N)
-    net_g, okr = _search(setup, w, grid)
-    ok = okr.copy()
-    ok[0] = True                                                          # stopping is always allowed
-    net = np.where(ok, net_g, -np.inf)
-    i_best = np.argmax(net, axis=0)                                      # (N,)
-    cols = np.arange(grid.shape[1])
-    best_x = grid[i_best, cols]
-    best_f = net[i_best, cols]
-    # A limit binds between two neighbouring grid points of which one keeps it and the other
-    # breaks it; the optimum may sit on that boundary. Take the crossing whose feasible side has
-    # the most net gain and bisect it (feasible side kept).
-    net_r = np.where(okr, net_g, -np.inf)
-    up = okr[:-1] & ~okr[1:]                                              # keeps at i, breaks at i+1
-    down = ~okr[:-1] & okr[1:]                                            # breaks at i, keeps at i+1
-    score = np.concatenate([np.where(up, net_r[:-1], -np.inf), np.where(down, net_r[1:], -np.inf)])
-    pick = np.argmax(score, axis=0)
-    has_edge = np.isfinite(score[pick, cols])
-    is_up = pick < k - 1
-    i_t = np.where(is_up, pick, pick - (k - 1))                           # crossing between i_t, i_t+1
-    keep_x = np.where(is_up, grid[i_t, cols], grid[np.minimum(i_t + 1, k - 1), cols])
-    break_x = np.where(is_up, grid[np.minimum(i_t + 1, k - 1), cols], grid[i_t, cols])
-    edge = keep_x.copy()
-    sub = np.flatnonzero(has_edge)
-    if sub.size:
-        ws = _take(w, sub)
-        a, b = keep_x[sub], break_x[sub]
-        for _ in range(BOUNDARY_STEPS):
-            m = 0.5 * (a + b)
-            fm = _search(setup, ws, m)[1]
-            a = np.where(fm, m, a)
-            b = np.where(fm, b, m)
-        edge[sub] = a
-    # bracket around the best grid point, cut at the boundary where a neighbour breaks a limit
-    i_lo = np.maximum(i_best - 1, 0)
-    i_hi = np.minimum(i_best + 1, k - 1)
-    hi_edge = has_edge & is_up & (i_t == i_best)
-    lo_edge = has_edge & ~is_up & (i_t + 1 == i_best)
-    lo = np.where(okr[i_lo, cols], grid[i_lo, cols], np.where(lo_edge, edge, best_x))
-    hi = np.where(okr[i_hi, cols], grid[i_hi, cols], np.where(hi_edge, edge, best_x))
-    # fine grid in the bracket (the net gain can have several small bumps near its top) ...
-    fine = lo + np.linspace(0.0, 1.0, FINE_GRID_POINTS)[:, None] * (hi - lo)
-    net_f, ok_f = _search(setup, w, fine)
-    net_f = np.where(ok_f | (fine == 0.0), net_f, -np.inf)
-    j = np.argmax(net_f, axis=0)
-    fine_x, fine_f = fine[j, cols], net_f[j, cols]
-    a = fine[np.maximum(j - 1, 0), cols]
-    b = fine[np.minimum(j + 1, FINE_GRID_POINTS - 1), cols]
-    # ... then golden-section maximisation between the best fine point's neighbours
-    c = b - _GOLDEN * (b - a)
-    d = a + _GOLDEN * (b - a)
-    fc = _search(setup, w, c)[0]
-    fd = _search(setup, w, d)[0]
-    for _ in range(GOLDEN_STEPS):
-        left = fc >= fd
-        b = np.where(left, d, b)
-        a = np.where(left, a, c)
-        new = np.where(left, b - _GOLDEN * (b - a), a + _GOLDEN * (b - a))
-        fnew = _search(setup, w, new)[0]
-        fc, fd = np.where(left, fnew, fd), np.where(left, fc, fnew)
-        c, d = np.where(left, new, d), np.where(left, c, new)
-    x_g = 0.5 * (a + b)
-    candidates = np.stack([best_x, fine_x, x_g, edge])                   # (4, N)
-    net_c, ok_c = _search(setup, w, candidates)
-    f_c = np.where(ok_c | (candidates == 0.0), net_c, -np.inf)
-    jc = np.argmax(f_c, axis=0)
-    x = candidates[jc, cols]
-    f = f_c[jc, cols]
-    x = np.where(f >= np.maximum(best_f, fine_f), x, np.where(fine_f > best_f, fine_x, best_x))
-    return np.where(calm, 0.0, x)
 
 
 def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape, mode) -> Operation:
@@ -755,6 +712,673 @@ def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape
         spin_ratio_span_min=shaped(np.where(running, sr_strip.min(axis=-1), 0.0)),
         spin_ratio_span_max=shaped(np.where(running, sr_strip.max(axis=-1), 0.0)),
     )
+
+
+# ============================================================================ best-spin search
+class _Pieces:
+    """A coefficient set's monotone cubic pieces with their slopes, for the best-spin search.
+
+    The same PCHIP as :meth:`liftcore.coefficients.CoefficientSet.evaluate` (built from the set's
+    table), evaluated by looking up the piece and a cubic in the distance from its start: one
+    gather of the piece's coefficients per point instead of an interpolator call, and the slope
+    d(C)/d(SR) almost for free. Two more pieces, constant, hold the end values below and above
+    the table (slope 0 there). A test compares both.
+    """
+
+    def __init__(self, cs: coef.CoefficientSet):
+        x = np.asarray(cs.spin_ratio, dtype=float)
+        cols = [cs.lift, cs.drag] + ([cs.power] if cs.has_power else [])
+        y = np.column_stack([np.asarray(c, dtype=float) for c in cols])
+        pp = PchipInterpolator(x, y, axis=0)
+        m = x.size
+        self.x = x
+        self.lo, self.hi = float(x[0]), float(x[-1])
+        self.columns = len(cols)
+        # pieces: 0 held below the table, 1 .. m-1 the table's, m held above it
+        c = np.zeros((4, m + 1, len(cols)))
+        c[:, 1:m] = pp.c
+        c[3, 0], c[3, m] = y[0], y[-1]
+        # row 4 j + k: coefficient of t^(3-k) of column j (CL, CD, CP), t = SR - start of the piece
+        self.table = np.ascontiguousarray(c.transpose(2, 0, 1).reshape(4 * len(cols), m + 1))
+        self.start = np.concatenate([[x[0]], x])                     # where each piece starts
+        self.bounds = np.concatenate([[-np.inf], x, [np.inf]])       # ... and ends (next start)
+        step = np.diff(x)
+        self.uniform = bool(np.all(np.abs(step - step[0]) <= 1e-12 * step[0]))
+        self.step = float(step[0])
+        cell = self.step if self.uniform else 0.5 * float(step.min())
+        self.inv_cell = 1.0 / cell
+        self.lut = None
+        cells = int(math.ceil((self.hi - self.lo) / cell)) + 1
+        if not self.uniform and cells <= _LOOKUP_CELLS_MAX:
+            # piece at the start of each look-up cell; a cell is at most half a piece wide, so it
+            # holds at most one knot and one comparison each way finds the piece of any point
+            start = self.lo + np.arange(cells) * cell
+            self.lut = np.searchsorted(x, start, side="right")
+        self._bends(pp)
+
+    def _bends(self, pp):
+        """How sharply the curves bend at the table points, for :func:`_bend_bound`: ``sharpest[k]``
+        is the largest |jump| of the k-th derivative (k = 1, 2, 3) of CL, CD, (CP,) and of CL^2 (the
+        part CD' = CD + kar CL^2 adds) over the table points. First derivatives jump only where the
+        values are held beyond the table.
+        """
+        x, c = self.x, pp.c                                          # c: (4, pieces, columns)
+        h = np.diff(x)[:, None]
+        m = x.size
+        cols = c.shape[2]
+        right = np.zeros((4, m, cols))                               # one-sided derivatives 1..3
+        left = np.zeros((4, m, cols))
+        right[1, :-1], right[2, :-1], right[3, :-1] = c[2], 2.0 * c[1], 6.0 * c[0]
+        left[1, 1:] = (3.0 * c[0] * h + 2.0 * c[1]) * h + c[2]
+        left[2, 1:] = 6.0 * c[0] * h + 2.0 * c[1]
+        left[3, 1:] = 6.0 * c[0]
+        if self.lo <= 0.0:                                           # no held stretch below the table
+            left[:, 0] = right[:, 0]
+        jump = np.abs(right - left)
+        end = (((c[0, -1] * h[-1] + c[1, -1]) * h[-1] + c[2, -1]) * h[-1] + c[3, -1])[None]
+        cl = np.abs(np.vstack([c[3], end])[:, 0])
+        cl1 = np.maximum(np.abs(right[1, :, 0]), np.abs(left[1, :, 0]))
+        cl2 = np.maximum(np.abs(right[2, :, 0]), np.abs(left[2, :, 0]))
+        # bounds on the jumps of the derivatives of CL^2: D(CL^2) = 2 CL D(CL),
+        # D2(CL^2) = 2 (D(CL)^2 + CL D2(CL)), D3(CL^2) = 2 (3 D(CL) D2(CL) + CL D3(CL))
+        sq = {1: 2.0 * cl * jump[1, :, 0],
+              2: 2.0 * (2.0 * cl1 * jump[1, :, 0] + cl * jump[2, :, 0]),
+              3: 2.0 * (3.0 * (cl1 * jump[2, :, 0] + cl2 * jump[1, :, 0]) + cl * jump[3, :, 0])}
+        self.sharpest = {k: np.append(jump[k].max(axis=0), sq[k].max()) for k in (1, 2, 3)}
+        self.min_step = float(np.diff(x).min())
+
+    def piece(self, s):
+        """Piece holding each spin ratio ``s`` and the distance from the piece's start."""
+        if self.uniform:
+            k = s * self.inv_cell
+            k += 1.0 - self.lo * self.inv_cell
+            i = k.astype(np.intp)
+            np.clip(i, 0, self.x.size, out=i)
+            t = s - (self.lo - self.step)
+            t -= i * self.step
+            return i, t
+        if self.lut is not None:
+            k = np.clip(((s - self.lo) * self.inv_cell).astype(np.intp), 0, self.lut.size - 1)
+            i = self.lut[k]
+            i += s >= self.bounds[i + 1]
+            i -= s < self.bounds[i]
+        else:
+            i = np.searchsorted(self.x, s, side="right")
+        return i, s - self.start[i]
+
+    def __call__(self, spin_ratio, slopes: bool = True):
+        """([CL, CD(, CP)], [their slopes] or None) at ``spin_ratio``."""
+        i, t = self.piece(spin_ratio)
+        c = np.take(self.table, i, axis=1)
+        values, derivs = [], []
+        t3 = 3.0 * t if slopes else None
+        for j in range(self.columns):
+            a3, a2, a1, a0 = c[4 * j], c[4 * j + 1], c[4 * j + 2], c[4 * j + 3]
+            v = a3 * t
+            v += a2
+            if slopes:
+                dv = a3 * t3
+                dv += a2
+                dv += a2
+                dv *= t
+                dv += a1
+                derivs.append(dv)
+            v *= t
+            v += a1
+            v *= t
+            v += a0
+            values.append(v)
+        return values, (derivs if slopes else None)
+
+    def knots_inside(self, low, high):
+        """Indices of the first table point above ``low`` and of the last one below ``high``."""
+        if self.uniform:
+            first = np.floor((low - self.lo) * self.inv_cell).astype(np.intp) + 1
+            last = np.ceil((high - self.lo) * self.inv_cell).astype(np.intp) - 1
+            return np.maximum(first, 0), np.minimum(last, self.x.size - 1)
+        return (np.searchsorted(self.x, low, side="right"), np.searchsorted(self.x, high, side="left") - 1)
+
+
+def _skin_friction_power_and_slope(setup: RotorSetup, omega):
+    """:func:`spin_power_skin_friction` for this rotor and its derivative d(P)/d(omega). [W], [W s]
+
+    Each part is a power of omega times the ITTC 1957 line or the disc's Re^-1/5 law, so the slope
+    is P/omega times 3 - 2/((log10 Re - 2) ln 10) (cylinder) or 2.8 (disc); 3 for both where the
+    Reynolds number is held at ``FRICTION_RE_MIN``.
+    """
+    w = np.abs(np.asarray(omega, dtype=float))
+    d, nu = setup.diameter_m, setup.kinematic_viscosity_m2_s
+    rho = setup.air_density_kg_m3
+    u = w * 0.5 * d
+    re_raw = u * math.pi * d / nu
+    re = np.maximum(re_raw, FRICTION_RE_MIN)
+    lg = np.log10(re) - 2.0
+    cf = 0.075 / lg ** 2
+    p_cyl = 0.5 * rho * cf * u ** 3 * math.pi * d * setup.height_m
+    rd = 0.5 * d * max(setup.end_plate_ratio, 1.0)
+    red_raw = w * rd * rd / nu
+    re_d = np.maximum(red_raw, FRICTION_RE_MIN)
+    p_disc = 0.5 * DISC_MOMENT_CONSTANT * re_d ** -0.2 * rho * w ** 3 * rd ** 5
+    e_cyl = np.where(re_raw > FRICTION_RE_MIN, 3.0 - 2.0 / (lg * math.log(10.0)), 3.0)
+    e_disc = np.where(red_raw > FRICTION_RE_MIN, 2.8, 3.0)
+    safe = np.where(w > 0.0, w, 1.0)
+    slope = np.where(w > 0.0, (e_cyl * p_cyl + e_disc * p_disc) / safe, 0.0)
+    return p_cyl + p_disc, slope
+
+
+@dataclass(frozen=True)
+class _SpinProblem:
+    """Net gain, heel and spin power of many conditions as functions of the angular speed omega,
+    with everything that does not depend on omega worked out once.
+
+    Arrays are (strips, conditions). The spin ratio of a strip is omega u. Per strip, net gain =
+    wl CL + wd CD' - (rotors / electrical efficiency) pp CP, heeling moment = hl CL + hd CD', spin
+    power of one rotor = pp CP (or the skin-friction model of omega), with CD' = CD + kar CL^2 the
+    drag moved to this rotor's aspect ratio (kar = 0 without that correction): the sums of
+    :func:`_evaluate`, rearranged.
+    """
+
+    u: np.ndarray
+    wl: np.ndarray
+    wd: np.ndarray
+    hl: np.ndarray
+    hd: np.ndarray
+    pp: np.ndarray | None
+    kar: float
+    power_weight: float             # net gain per watt of shaft power of one rotor (negative)
+    inv_max_power: float            # 1 / motor-power limit (with a rounding slack) [1/W]
+    inv_max_heel: float             # 1 / heeling-moment limit (with a rounding slack) [1/(N m)]
+
+    def take(self, idx) -> "_SpinProblem":
+        """The problem of some of the conditions (index array, mask or slice)."""
+        kw = {}
+        for name in self.__dataclass_fields__:
+            v = getattr(self, name)
+            kw[name] = v[:, idx] if isinstance(v, np.ndarray) else v
+        return _SpinProblem(**kw)
+
+
+def _spin_problem(setup: RotorSetup, w: _Wind) -> _SpinProblem:
+    cs = setup.coefficients
+    va = w.va.T
+    calm = va <= CALM_M_S
+    u = np.where(calm, 0.0, setup.radius_m / np.where(calm, 1.0, va))
+    k = setup.force_factor
+    qa = w.q.T * (setup.diameter_m * setup.height_m / setup.strips)
+    gain = k * w.ship / setup.propulsive_efficiency
+    sinb, cosb = w.sinb.T, w.cosb.T
+    lever = (setup.strip_heights_m + setup.heel_reference_depth_m)[:, None]
+    kar = 0.0
+    if setup.correct_aspect_ratio:
+        set_ar = coef.effective_aspect_ratio_hoerner(cs.aspect_ratio, cs.end_plate_ratio)
+        kar = float((1.0 / setup.effective_aspect_ratio - 1.0 / set_ar) / (math.pi * coef.SPAN_EFFICIENCY))
+    c = np.ascontiguousarray
+    return _SpinProblem(u=c(u), wl=c(gain * qa * np.abs(sinb)), wd=c(-gain * qa * cosb),
+                        hl=c(-k * w.side_sign * qa * cosb * lever), hd=c(-k * qa * sinb * lever),
+                        pp=c(qa * va) if cs.has_power else None, kar=kar,
+                        power_weight=-setup.rotor_count / setup.electrical_efficiency,
+                        inv_max_power=1.0 / (setup.max_motor_power_w * (1 + _LIMIT_REL)),
+                        inv_max_heel=1.0 / (setup.max_heeling_moment_nm * (1 + _LIMIT_REL)))
+
+
+def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes: bool = True):
+    """(net gain [W], d(net gain)/d(omega) [W s] or None, limit margin) at angular speeds
+    ``omega`` of shape (..., N): the numbers of :func:`_evaluate`, fewer of them. The limit margin
+    max(P / P_max, |M_heel| / M_max) - 1 is <= 0 where both limits are kept."""
+    omega = np.asarray(omega, dtype=float)
+    ex = (slice(None),) + (None,) * (omega.ndim - 1)
+    u = prob.u[ex]
+    sr = u * omega                                                   # (strips, ..., N)
+    values, derivs = pieces(sr, slopes)
+    cl, cd = values[0], values[1]
+    if prob.kar:
+        cd += prob.kar * (cl * cl)
+    wl, wd = prob.wl[ex], prob.wd[ex]
+    f = wl * cl
+    f += wd * cd
+    heel = prob.hl[ex] * cl
+    heel += prob.hd[ex] * cd
+    heel = np.abs(heel.sum(axis=0))
+    if prob.pp is not None:
+        strip_power = prob.pp[ex] * values[2]
+        f += prob.power_weight * strip_power
+        power = strip_power.sum(axis=0)
+        net = f.sum(axis=0)
+    else:
+        power, power_slope = _skin_friction_power_and_slope(setup, omega)
+        net = f.sum(axis=0)
+        net += prob.power_weight * power
+    margin = np.maximum(power * prob.inv_max_power, heel * prob.inv_max_heel) - 1.0
+    if not slopes:
+        return net, None, margin
+    dcl, dcd = derivs[0], derivs[1]
+    if prob.kar:
+        dcd += (2.0 * prob.kar) * (cl * dcl)
+    g = wl * dcl
+    g += wd * dcd
+    if prob.pp is not None:
+        g += (prob.power_weight * prob.pp[ex]) * derivs[2]
+    g *= u
+    slope = g.sum(axis=0)
+    if prob.pp is None:
+        slope += prob.power_weight * power_slope
+    return net, slope, margin
+
+
+def _values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes: bool = True):
+    """:func:`_spin_values` in pieces of at most ``CHUNK_ELEMENTS`` strip evaluations (the
+    temporaries stay in the processor's cache); omega is (rows, N) or (N,)."""
+    omega = np.asarray(omega, dtype=float)
+    n = omega.shape[-1]
+    per = max(1, CHUNK_ELEMENTS // (prob.u.shape[0] * max(1, omega.size // max(n, 1))))
+    if per >= n:
+        return _spin_values(setup, pieces, prob, omega, slopes)
+    parts = [_spin_values(setup, pieces, prob.take(slice(a, a + per)), omega[..., a:a + per], slopes)
+             for a in range(0, n, per)]
+    return tuple(None if parts[0][j] is None else np.concatenate([p[j] for p in parts], axis=-1)
+                 for j in range(3))
+
+
+def _cubic_peak(x1, x2, f1, f2, d1, d2, turn=False):
+    """Maximum of the cubic through (x1, f1) and (x2, f2) with slopes d1, d2 (cubic Hermite
+    interpolation): (x of the maximum, its value[, x of its inflection when ``turn``]), NaN where
+    the cubic has no local maximum.
+
+    With s = (x - x1)/(x2 - x1) the cubic is f1 + a1 s + a2 s^2 + a3 s^3; its local maximum is the
+    root of the derivative where the second derivative is negative, computed without
+    cancellation; the inflection, half-way between the maximum and the minimum, is where the
+    slope is furthest from zero between them. Either may lie outside [x1, x2]: the caller checks.
+    """
+    h = x2 - x1
+    a1 = h * d1
+    a2 = 3.0 * (f2 - f1) - h * (2.0 * d1 + d2)
+    a3 = 2.0 * (f1 - f2) + h * (d1 + d2)
+    disc = a2 * a2 - 3.0 * a1 * a3
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        root = np.sqrt(np.where(disc > 0.0, disc, np.nan))
+        s = np.where(a2 <= 0.0, a1 / (root - a2), -(a2 + root) / (3.0 * a3))
+        value = f1 + s * (a1 + s * (a2 + s * a3))
+        if not turn:
+            return x1 + s * h, value
+        bend = -a2 / (3.0 * a3) + 0.0 * root                        # between maximum and minimum
+    return x1 + s * h, value, x1 + bend * h
+
+
+def _cell_peaks(x, f, d, ok):
+    """How high the net gain may rise inside each cell between neighbouring rows of ``x``, as
+    far as the cubic through the ends' values and slopes tells: its interior maximum or, where
+    one end breaks a limit, its highest value on the way there; -inf where that does not rise
+    above the feasible end(s) or neither end keeps the limits.
+    """
+    x1, x2, f1, f2 = x[:-1], x[1:], f[:-1], f[1:]
+    px, pv = _cubic_peak(x1, x2, f1, f2, d[:-1], d[1:])
+    pv = np.where((px > x1) & (px < x2), pv, -np.inf)
+    ok1, ok2 = ok[:-1], ok[1:]
+    high = np.where(ok1 & ok2, pv, np.maximum(pv, np.where(ok1, f2, f1)))
+    ends = np.maximum(np.where(ok1, f1, -np.inf), np.where(ok2, f2, -np.inf))
+    return np.where((ok1 | ok2) & (high > ends), high, -np.inf)
+
+
+def _breakpoints(pieces: _Pieces, u, a, b):
+    """Angular speeds strictly between ``a`` and ``b`` (per entry) at which some strip's spin
+    ratio crosses a point of the coefficient table: (rows (count, entries) sorted, NaN beyond an
+    entry's own count; counts). Between them the net gain is one smooth function.
+    """
+    if u.shape[0] > 1 and np.all(u == u[:1]):
+        u = u[:1]                                     # one spin ratio all along (uniform wind)
+    first, last = pieces.knots_inside(u * a, u * b)                 # (strips, entries)
+    count = np.where(u > 0.0, np.maximum(last - first + 1, 0), 0)
+    most = int(count.max(initial=0))
+    total = count.sum(axis=0)
+    if most == 0:
+        return np.empty((0, a.size)), total
+    r = np.arange(most)[:, None, None]
+    j = np.minimum(first + r, pieces.x.size - 1)
+    pts = np.where(r < count, pieces.x[j] / np.where(u > 0.0, u, 1.0), np.nan)
+    # where the table ends and its values are held, the slope jumps: a point just before and
+    # one just after, so that the cubics on either side get their own one-sided slope
+    ends = (j == pieces.x.size - 1) | ((j == 0) & (pieces.lo > 0.0))
+    ends &= r < count
+    after = np.where(ends, pts * (1.0 + _KINK_SPLIT), np.nan)
+    pts = np.where(ends, pts * (1.0 - _KINK_SPLIT), pts)
+    total = total + ends.sum(axis=(0, 1))
+    pts = np.concatenate([pts.reshape(-1, a.size), after.reshape(-1, a.size)])
+    pts = np.sort(pts.T, axis=1)                                     # (entries, ...), NaN last
+    if total.max() > BREAKPOINTS_MAX:                                # very fine user tables
+        pick = np.linspace(0.0, 1.0, BREAKPOINTS_MAX)[None, :] * np.maximum(total[:, None] - 1, 0)
+        pts = np.take_along_axis(pts, pick.round().astype(np.intp), axis=1)
+        pts = np.where(np.arange(BREAKPOINTS_MAX)[None, :] < total[:, None], pts, np.nan)
+        total = np.minimum(total, BREAKPOINTS_MAX)
+    return pts[:, :int(total.max())].T, total
+
+
+def _bend_weight(pieces: _Pieces, prob: _SpinProblem, h):
+    """Per strip and condition, the most that one crossing of a table point inside a cell of
+    width ``h`` can make the net gain depart from the cubic through the cell's ends: (any
+    crossing, extra where the crossing is an end of the table). See :func:`_bend_bound`."""
+    u = prob.u
+    wl, wd = np.abs(prob.wl), np.abs(prob.wd)
+    wp = np.abs(prob.power_weight * prob.pp) if prob.pp is not None else None
+    sq = 2.0 * abs(prob.kar)
+    terms = {}
+    for order, c in zip((1, 2, 3), HERMITE_KINK_ERROR):
+        most = pieces.sharpest[order]
+        weight = wl * most[0] + wd * (most[1] + sq * most[-1])
+        if wp is not None:
+            weight = weight + wp * most[2]
+        terms[order] = c * (h * u) ** order * weight
+    return terms[2] + terms[3], terms[1]
+
+
+def _bend_bound(pieces: _Pieces, u, bend, kink, a, b):
+    """Upper bound on how far the net gain departs, inside each cell [a, b], from the cubic
+    through its ends' values and slopes, because of the bends where strips cross table points.
+
+    Each crossing adds to the net gain a term that starts there with a jump J_k in its k-th
+    derivative (k = 1 only where the table ends and its values are held, then 2 and 3). The
+    cubic through the cell's ends misses such a term by at most c_k J_k h^k, h = b - a, with
+    c_k = ``HERMITE_KINK_ERROR`` (the largest error of cubic Hermite interpolation of
+    (x - x0)_+^k / k! on a unit interval: 4/27, 1/61.9 and 1/192, found numerically; a test
+    checks them). J_k is at most the sharpest jump of
+    CL, CD, CP and CL^2 in the table times the strip's weights and (d SR / d omega)^k: ``bend``
+    and ``kink`` per strip from :func:`_bend_weight`, times the crossings counted here. Terms of
+    fourth and higher order and the cubic's error on the smooth part are left out: the caller
+    applies a safety factor.
+    """
+    first, last = pieces.knots_inside(u * a, u * b)                  # (strips, cells)
+    first = np.clip(first, 0, pieces.x.size)
+    stop = np.clip(last + 1, first, pieces.x.size)
+    ends = stop == pieces.x.size                                     # crosses the top of the table
+    if pieces.lo > 0.0:
+        ends = ends | ((first == 0) & (stop > 0))                   # ... or its held bottom
+    return ((stop - first) * bend + ends * kink).sum(axis=0)
+
+
+def _limit_windows(setup, pieces, prob, x, margin, tol):
+    """Stretches that keep the limits between grid points that break them: (conditions, start,
+    end) or None. At the grid's lowest local minimum of the limit margin that is above zero, the
+    margin is minimised between the neighbouring grid points (golden section); where it reaches
+    zero, the limit boundaries either side of that point bound the stretch."""
+    k = x.shape[0]
+    lower = np.vstack([np.full((1, x.shape[1]), np.inf), margin[:-1]])
+    upper = np.vstack([margin[1:], np.full((1, x.shape[1]), np.inf)])
+    dip = (margin > 0.0) & (margin <= lower) & (margin <= upper) & (x[-1] > 0.0)
+    if not dip.any():
+        return None
+    r = np.argmin(np.where(dip, margin, np.inf), axis=0)
+    cond = np.flatnonzero(dip.any(axis=0))
+    r = r[cond]
+    lo, hi = x[np.maximum(r - 1, 0), cond], x[np.minimum(r + 1, k - 1), cond]
+    m_lo, m_hi = margin[np.maximum(r - 1, 0), cond], margin[np.minimum(r + 1, k - 1), cond]
+    pw = prob.take(cond)
+    # golden-section search for the lowest margin, stopping early where it drops below zero
+    g = (math.sqrt(5.0) - 1.0) / 2.0
+    a, b = lo.copy(), hi.copy()
+    c, e = b - g * (b - a), a + g * (b - a)
+    mc = _values(setup, pieces, pw, c, slopes=False)[2]
+    me = _values(setup, pieces, pw, e, slopes=False)[2]
+    t = tol[cond]
+    for _ in range(BOUNDARY_STEPS_MAX):
+        found = np.minimum(mc, me) <= -_MARGIN_ROUNDING
+        live = ~found & (b - a > t)
+        if not live.any():
+            break
+        left = mc <= me
+        b, a = np.where(live & left, e, b), np.where(live & ~left, c, a)
+        new = np.where(left, b - g * (b - a), a + g * (b - a))
+        mn = _values(setup, pieces, pw, np.where(live, new, c), slopes=False)[2]
+        mn = np.where(live, mn, np.where(left, mc, me))
+        c, e, mc, me = (np.where(live & left, new, np.where(live, e, c)),
+                        np.where(live & left, c, np.where(live, new, e)),
+                        np.where(live & left, mn, np.where(live, me, mc)),
+                        np.where(live & left, mc, np.where(live, mn, me)))
+    inside = np.where(mc <= me, c, e)
+    m_in = np.minimum(mc, me)
+    ok = m_in <= -_MARGIN_ROUNDING
+    if not ok.any():
+        return None
+    cond, inside, m_in, pw, t = cond[ok], inside[ok], m_in[ok], pw.take(ok), t[ok]
+    start = _limit_boundary(setup, pieces, pw, inside, m_in, lo[ok], m_lo[ok], t)
+    end = _limit_boundary(setup, pieces, pw, inside, m_in, hi[ok], m_hi[ok], t)
+    return cond, start, end
+
+
+def _limit_boundary(setup, pieces, prob, keep, m_keep, brk, m_brk, tol):
+    """Between a spin that keeps the limits (margin ``m_keep`` <= 0) and one that breaks them,
+    the spin on the keeping side within ``tol`` of where the margin changes sign: regula falsi
+    with the Illinois modification, bisection when the bracket has not halved in two steps."""
+    side = np.zeros(keep.size, dtype=np.int8)                     # last end moved: 1 keep, -1 break
+    w1 = np.full(keep.size, np.inf)
+    w2 = w1.copy()
+    idx = np.arange(keep.size)
+    out = keep.copy()
+    for _ in range(BOUNDARY_STEPS_MAX):
+        width = np.abs(brk - keep)
+        live = (width > tol) & (m_keep < -BOUNDARY_MARGIN_TOL)
+        if not live.any():
+            break
+        if live.sum() < 0.5 * live.size:                             # drop the finished ones
+            out[idx[~live]] = keep[~live]
+            idx, keep, m_keep, brk, m_brk, tol, side, w1, w2, width = (
+                v[live] for v in (idx, keep, m_keep, brk, m_brk, tol, side, w1, w2, width))
+            prob = prob.take(live)
+            live = live[live]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            x = keep - m_keep * (brk - keep) / (m_brk - m_keep)
+        inside = np.abs(x - keep) < width
+        inside &= np.abs(x - brk) < width
+        x = np.where(inside & (width <= 0.5 * w2), x, 0.5 * (keep + brk))
+        x = np.where(live, x, keep)                                  # finished: marks time
+        m = _values(setup, pieces, prob, x, slopes=False)[2]
+        kept = (m <= -_MARGIN_ROUNDING) | ~live                      # inside, whatever the rounding
+        m_brk = np.where(kept & (side == 1), 0.5 * m_brk, m_brk)
+        m_keep = np.where(~kept & (side == -1), 0.5 * m_keep, m_keep)
+        keep, m_keep = np.where(kept, x, keep), np.where(kept, m, m_keep)
+        brk, m_brk = np.where(kept, brk, x), np.where(kept, m_brk, m)
+        side = np.where(kept, 1, -1).astype(np.int8)
+        w2, w1 = w1, width
+    out[idx] = keep
+    return out
+
+
+def _refine(setup, pieces, prob, tol, ftol, p, q, fp, fq, dp, dq):
+    """The highest local maximum of the net gain in each interval [p, q] whose cubic (through
+    the ends' values and slopes) peaks inside, to ``tol``. Returns (x, net) of the best point
+    met that keeps the limits (net -inf where none did). ``ftol``: net gains closer than this
+    count as equal (a bump the cubic predicts to rise less above the ends is not pursued).
+
+    While the slope changes sign between the ends (> 0 at p, <= 0 at q) the next point is the
+    peak of the cubic through the last two points (superlinear), or the middle when that falls
+    outside the bracket or the bracket has not halved in two steps; the half where the sign
+    changes is kept. Otherwise (a bump and a dip inside, slopes of one sign at both ends) the
+    next point is the cubic's peak and the half whose cubic peaks higher is kept.
+    """
+    n = p.size
+    st = {"idx": np.arange(n), "tol": tol, "ftol": ftol, "p": p, "q": q, "fp": fp, "fq": fq, "dp": dp, "dq": dq,
+          "x1": p, "f1": fp, "d1": dp, "x2": q, "f2": fq, "d2": dq,
+          "w1": np.full(n, np.inf), "w2": np.full(n, np.inf), "bx": p.copy(), "bf": np.full(n, -np.inf),
+          "done": np.zeros(n, dtype=bool)}
+    best_x, best_f = p.copy(), np.full(n, -np.inf)
+    true2 = np.ones((2, 1), dtype=bool)
+    for _ in range(REFINE_STEPS_MAX):
+        p, q = st["p"], st["q"]
+        bracket = (st["dp"] > 0) & (st["dq"] <= 0)
+        near, _ = _cubic_peak(st["x1"], st["x2"], st["f1"], st["f2"], st["d1"], st["d2"])
+        whole, rise, bend = _cubic_peak(p, q, st["fp"], st["fq"], st["dp"], st["dq"], turn=True)
+        # without a sign change, probe where the cubic's slope is furthest from zero between
+        # its maximum and minimum: the slope there most likely has the sign that makes a bracket
+        xc = np.where(bracket, near, bend)
+        inside = (xc > p) & (xc < q)
+        width = q - p
+        xc = np.where(bracket & (~inside | (width > 0.5 * st["w2"])), 0.5 * (p + q), xc)
+        # done: the cubic over the interval rises less than ftol above its ends
+        st["done"] |= ~(rise > np.maximum(st["fp"], st["fq"]) + st["ftol"]) | ~(bracket | inside)
+        xc = np.where(st["done"], st["bx"], xc)                      # finished: marks time
+        fc, dc, mc = _values(setup, pieces, prob, xc)
+        better = (mc <= 0.0) & (fc > st["bf"])
+        st["bx"], st["bf"] = np.where(better, xc, st["bx"]), np.where(better, fc, st["bf"])
+        left = (st["dp"] > 0) & (dc <= 0)                            # the left half brackets
+        right = (dc > 0) & (st["dq"] <= 0)
+        peak_left = _cell_peaks(np.stack([p, xc]), np.stack([st["fp"], fc]), np.stack([st["dp"], dc]), true2)[0]
+        peak_right = _cell_peaks(np.stack([xc, q]), np.stack([fc, st["fq"]]), np.stack([dc, st["dq"]]), true2)[0]
+        go_left = np.where(left, True, np.where(right, False, peak_left >= peak_right))
+        step = np.abs(xc - st["x2"])
+        st["p"], st["fp"], st["dp"] = (np.where(go_left, p, xc), np.where(go_left, st["fp"], fc),
+                                       np.where(go_left, st["dp"], dc))
+        st["q"], st["fq"], st["dq"] = (np.where(go_left, xc, q), np.where(go_left, fc, st["fq"]),
+                                       np.where(go_left, dc, st["dq"]))
+        st["x1"], st["f1"], st["d1"] = st["x2"], st["f2"], st["d2"]
+        st["x2"], st["f2"], st["d2"] = xc, fc, dc
+        st["w2"], st["w1"] = st["w1"], width
+        # done: located to tol, or (no sign change) no bump left in either half
+        done = (st["q"] - st["p"] <= st["tol"]) | (step <= st["tol"])
+        done |= ~left & ~right & ~np.isfinite(np.maximum(peak_left, peak_right))
+        st["done"] |= done
+        if st["done"].any():
+            live = ~st["done"]
+            if not live.any():
+                break
+            if live.sum() < 0.5 * live.size:                         # drop the finished ones
+                best_x[st["idx"][~live]], best_f[st["idx"][~live]] = st["bx"][~live], st["bf"][~live]
+                st = {key: v[live] for key, v in st.items()}
+                prob = prob.take(live)
+    best_x[st["idx"]], best_f[st["idx"]] = st["bx"], st["bf"]
+    return best_x, best_f
+
+
+def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> np.ndarray:
+    """Best angular speed for each condition (vectorised search, see best_operation)."""
+    va = w.va_mid
+    calm = va <= CALM_M_S
+    top = np.minimum(setup.spin_ratio_limit() * np.where(calm, 1.0, va) / setup.radius_m,
+                     setup.max_rpm / _RPM_PER_RAD_S)
+    top = np.where(calm, 0.0, top)
+    tol = BEST_SPIN_XTOL * top
+    n = va.size
+    cols = np.arange(n)
+    prob = _spin_problem(setup, w)
+
+    # 1. net gain and its slope on a grid over the whole range; the best grid point that keeps
+    #    the limits
+    k = BEST_GRID_POINTS
+    x = np.linspace(0.0, 1.0, k)[:, None] * top
+    x[-1] *= 1.0 - _KINK_SPLIT            # the slope from below at the top (a strip may leave the table there)
+    f, d, margin = _values(setup, pieces, prob, x)
+    ok = margin <= 0.0
+    fg = np.where(ok, f, -np.inf)
+    fg[0] = f[0]                                                     # stopping is always allowed
+    i = np.argmax(fg, axis=0)
+    best_f = fg[i, cols]
+    cand = [(cols, x[i, cols], best_f)]
+    ftol = BEST_SPIN_FTOL * np.abs(f).max(axis=0)
+    if progress is not None:
+        progress(0.4)
+
+    # 2. the cells that may hold more than the best grid point: where the cubic through the
+    #    ends' values and slopes (towards an end that breaks a limit: up to that end), plus the
+    #    most that bends at table points crossed inside can add to it, rises above it. A cap on
+    #    that bound for any cell first rules out most cells cheaply.
+    px, pv = _cubic_peak(x[:-1], x[1:], f[:-1], f[1:], d[:-1], d[1:])
+    pv = np.where((px > x[:-1]) & (px < x[1:]), pv, -np.inf)
+    high = np.maximum(pv, np.maximum(f[:-1], f[1:]))
+    usable = (ok[:-1] | ok[1:]) & (top > 0.0)
+    h = top / (k - 1)
+    bend, kink = _bend_weight(pieces, prob, h)                       # (strips, N)
+    # first a cap: every strip crosses each table point that any strip crosses in the cell
+    first, last = pieces.knots_inside(x[:-1] * prob.u.min(axis=0), x[1:] * prob.u.max(axis=0))
+    cap = BUMP_BOUND_FACTOR * (np.maximum(last - first + 1, 0) * bend.sum(axis=0) + kink.sum(axis=0))
+    rows, cond = np.nonzero(usable & (high + cap > best_f))
+    bound = BUMP_BOUND_FACTOR * _bend_bound(pieces, prob.u[:, cond], bend[:, cond], kink[:, cond],
+                                            x[rows, cond], x[rows + 1, cond])
+    keep = high[rows, cond] + bound > best_f[cond]
+    rows, cond = rows[keep], cond[keep]
+    a, b = x[rows, cond], x[rows + 1, cond]
+    fa, fb, da, db = f[rows, cond], f[rows + 1, cond], d[rows, cond], d[rows + 1, cond]
+    ma, mb = margin[rows, cond], margin[rows + 1, cond]
+
+    # 2b. a stretch that keeps the limits between grid points that all break them (a heeling
+    #     moment that falls and rises again with spin): where the grid's limit margin has a
+    #     local minimum above zero, the margin is minimised between its neighbours; where it
+    #     dips to zero, the stretch between the two boundaries is searched like a cell
+    window = _limit_windows(setup, pieces, prob, x, margin, tol)
+    if window is not None:
+        wc, wa, wb = window
+        fw, dw, mw = _values(setup, pieces, prob.take(wc), np.vstack([wa, wb]))
+        cand.append((np.concatenate([wc, wc]), np.concatenate([wa, wb]),
+                     np.where(mw.ravel() <= 0.0, fw.ravel(), -np.inf)))
+        cond, a, b = np.concatenate([cond, wc]), np.concatenate([a, wa]), np.concatenate([b, wb])
+        fa, fb = np.concatenate([fa, fw[0]]), np.concatenate([fb, fw[1]])
+        da, db = np.concatenate([da, dw[0]]), np.concatenate([db, dw[1]])
+        ma, mb = np.concatenate([ma, mw[0]]), np.concatenate([mb, mw[1]])
+    if cond.size:
+        pe = prob.take(cond)
+        te = tol[cond]
+
+        # 3. where a limit starts binding inside a cell, the boundary (a candidate), and only
+        #    the part of the cell that keeps the limits is searched further
+        e = np.flatnonzero((ma <= 0.0) != (mb <= 0.0))
+        if e.size:
+            left = ma[e] <= 0.0
+            pb = pe.take(e)
+            edge = _limit_boundary(setup, pieces, pb, np.where(left, a[e], b[e]), np.where(left, ma[e], mb[e]),
+                                   np.where(left, b[e], a[e]), np.where(left, mb[e], ma[e]), te[e])
+            fe, de, me = _values(setup, pieces, pb, edge)
+            cand.append((cond[e], edge, np.where(me <= 0.0, fe, -np.inf)))
+            b[e], fb[e], db[e], mb[e] = (np.where(left, edge, b[e]), np.where(left, fe, fb[e]),
+                                         np.where(left, de, db[e]), np.where(left, me, mb[e]))
+            a[e], fa[e], da[e], ma[e] = (np.where(left, a[e], edge), np.where(left, fa[e], fe),
+                                         np.where(left, da[e], de), np.where(left, ma[e], me))
+        if progress is not None:
+            progress(0.6)
+
+        # 4. inside each cell, the net gain and its slope at every spin where a strip crosses a
+        #    point of the coefficient table (its curvature jumps there and small bumps start);
+        #    between these points it is smooth and the cubic through neighbours models it
+        #    closely. Cells with as many such points are evaluated together.
+        pts, count = _breakpoints(pieces, pe.u, a, b)
+        order = np.argsort(count, kind="stable")
+        counts = count[order]
+        ps = pe.take(order)
+        starts = np.searchsorted(counts, np.arange(counts[-1] + 2))
+        found = []                                                   # best sub-interval per entry
+        for c in range(counts[-1] + 1):
+            lo, hi = starts[c], starts[c + 1]
+            if hi == lo:
+                continue
+            sel = order[lo:hi]
+            xs = np.vstack([a[sel], pts[:c, sel], b[sel]])
+            fs, ds, ms = np.vstack([fa[sel], fb[sel]]), np.vstack([da[sel], db[sel]]), np.vstack([ma[sel], mb[sel]])
+            if c:
+                fz, dz, mz = _values(setup, pieces, ps.take(slice(lo, hi)), xs[1:-1])
+                fs, ds, ms = (np.vstack([u[:1], v, u[1:]]) for u, v in ((fs, fz), (ds, dz), (ms, mz)))
+                inner = np.where(mz <= 0.0, fz, -np.inf)
+                j = np.argmax(inner, axis=0)
+                ent = np.arange(sel.size)
+                cand.append((cond[sel], xs[1 + j, ent], inner[j, ent]))
+            # 5. the sub-interval whose cubic peaks highest (refined below)
+            sub = _cell_peaks(xs, fs, ds, ms <= 0.0)
+            r = np.argmax(sub, axis=0)
+            ent = np.arange(sel.size)
+            live = np.isfinite(sub[r, ent])
+            r, ent = r[live], ent[live]
+            found.append((sel[live], xs[r, ent], xs[r + 1, ent], fs[r, ent], fs[r + 1, ent], ds[r, ent],
+                          ds[r + 1, ent]))
+        if progress is not None:
+            progress(0.9)
+        live, p, q, fp, fq, dp, dq = (np.concatenate(parts) for parts in zip(*found))
+        if live.size:
+            rx, rf = _refine(setup, pieces, pe.take(live), te[live], ftol[cond[live]], p, q, fp, fq, dp, dq)
+            cand.append((cond[live], rx, rf))
+
+    # 6. the best candidate of each condition (every condition has its grid point)
+    c = np.concatenate([c for c, _, _ in cand])
+    cx = np.concatenate([v for _, v, _ in cand])
+    cf = np.concatenate([v for _, _, v in cand])
+    order = np.lexsort((cf, c))                                      # by condition, best last
+    last = np.append(c[order][1:] != c[order][:-1], True)
+    best = np.zeros(n)
+    best[c[order][last]] = cx[order][last]
+    return np.where(calm, 0.0, best)
 
 
 # ============================================================================ warnings
