@@ -53,3 +53,20 @@ def text_table(rows) -> str:
     """Two-column aligned text: [(label, value_text), ...]."""
     width = max((len(r[0]) for r in rows), default=0)
     return "\n".join(f"{label:<{width}}  {value}" for label, value in rows)
+
+
+def validate_inputs(spec, raw: dict, option_of: dict, system: str = "marine") -> dict:
+    """A study's inputs from command-line values, checked one by one (missing ones take their
+    defaults); a bad one raises :class:`InputError` naming its option (``--ship-speed-kn: ...``),
+    with ranges in ``system``'s units."""
+    out = {}
+    for f in spec.fields:
+        if f.key not in raw:
+            out[f.key] = f.default
+            continue
+        try:
+            out[f.key] = f.validate(raw[f.key], system)
+        except InputError as exc:
+            opt = option_of.get(f.key)
+            raise InputError(opt or f.key, f"{opt}: {exc}" if opt else str(exc)) from None
+    return out

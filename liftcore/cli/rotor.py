@@ -11,7 +11,7 @@ from pathlib import Path
 
 from liftcore import coefficients as coef
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import add_air_options, density_from_args, text_table
+from liftcore.cli.common import add_air_options, density_from_args, text_table, validate_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.studies import rotor as study
@@ -117,16 +117,7 @@ def values_from_args(args) -> tuple[dict, object]:
     if args.no_aspect_ratio_correction:
         raw["correct_aspect_ratio"] = False
     option_of = {key: "--" + dest.replace("_", "-") for dest, (key, _) in _OPTIONS.items()}
-    values = {}
-    for f in study.INPUTS.fields:
-        if f.key not in raw:
-            values[f.key] = f.default
-            continue
-        try:
-            values[f.key] = f.validate(raw[f.key], "marine")
-        except InputError as exc:
-            opt = option_of.get(f.key, f.key)
-            raise InputError(opt, f"{opt}: {exc}") from None
+    values = validate_inputs(study.INPUTS, raw, option_of)
     table = None
     name = args.coefficients
     if name in coef.builtin_names():

@@ -18,7 +18,7 @@ from pathlib import Path
 
 from liftcore import coefficients as coef
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import add_air_options, air_from_args, require_one, text_table
+from liftcore.cli.common import add_air_options, air_from_args, require_one, text_table, validate_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError, check_number
 from liftcore.studies import format_number
@@ -203,16 +203,7 @@ def _validate(values: dict) -> dict:
                      installed_cost="--installed-cost", upkeep_per_year="--upkeep",
                      discount_rate_pct="--discount-rate-pct", sweep_max_rotors="--sweep-max-rotors",
                      speed_profile_kn="--speed-profile", user_coefficients_csv="--coefficients")
-    out = {}
-    for f in study.INPUTS.fields:
-        if f.key not in values:
-            out[f.key] = f.default
-            continue
-        try:
-            out[f.key] = f.validate(values[f.key], "marine")
-        except InputError as exc:
-            opt = option_of.get(f.key)
-            raise InputError(opt or f.key, f"{opt}: {exc}" if opt else str(exc)) from None
+    out = validate_inputs(study.INPUTS, values, option_of)
     return out
 
 
