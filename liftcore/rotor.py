@@ -866,6 +866,27 @@ def _skin_friction_power_and_slope(setup: RotorSetup, omega):
     return p_cyl + p_disc, slope
 
 
+def _skin_friction_kinks(setup: RotorSetup):
+    """Where the skin-friction model's slope jumps: the Reynolds number of the cylinder or of
+    the end plate reaches ``FRICTION_RE_MIN`` (held below it). Returns (omega [rad/s], |jump of
+    d(P)/d(omega)| [W s]) for the two parts; empty when the set has a power coefficient.
+
+    Below the point a part grows as omega^3; above it the cylinder's slope factor is
+    3 - 2/((log10 Re - 2) ln 10) and the disc's 2.8 (see :func:`_skin_friction_power_and_slope`),
+    so the slope drops by P/omega times 2/((log10 Re_min - 2) ln 10), or 0.2.
+    """
+    if setup.coefficients.has_power:
+        return np.empty(0), np.empty(0)
+    d, nu, rho = setup.diameter_m, setup.kinematic_viscosity_m2_s, setup.air_density_kg_m3
+    r, rd = 0.5 * d, 0.5 * d * max(setup.end_plate_ratio, 1.0)
+    lg = math.log10(FRICTION_RE_MIN) - 2.0
+    w_cyl, w_disc = FRICTION_RE_MIN * nu / (math.pi * d * r), FRICTION_RE_MIN * nu / (rd * rd)
+    p_cyl = 0.5 * rho * (0.075 / lg ** 2) * (w_cyl * r) ** 3 * math.pi * d * setup.height_m
+    p_disc = 0.5 * DISC_MOMENT_CONSTANT * FRICTION_RE_MIN ** -0.2 * rho * w_disc ** 3 * rd ** 5
+    jump = [p_cyl * 2.0 / (lg * math.log(10.0)) / w_cyl, 0.2 * p_disc / w_disc]
+    return np.array([w_cyl, w_disc]), np.array(jump)
+
+
 @dataclass(frozen=True)
 class _SpinProblem:
     """Net gain, heel and spin power of many conditions as functions of the angular speed omega,
@@ -912,10 +933,17 @@ def _spin_problem(setup: RotorSetup, w: _Wind) -> _SpinProblem:
     if setup.correct_aspect_ratio:
         set_ar = coef.effective_aspect_ratio_hoerner(cs.aspect_ratio, cs.end_plate_ratio)
         kar = float((1.0 / setup.effective_aspect_ratio - 1.0 / set_ar) / (math.pi * coef.SPAN_EFFICIENCY))
+    wl, wd = gain * qa * np.abs(sinb), -gain * qa * cosb
+    hl, hd = -k * w.side_sign * qa * cosb * lever, -k * qa * sinb * lever
+    pp = qa * va if cs.has_power else None
+    if u.shape[0] > 1 and np.all(u == u[:1]):
+        # one apparent wind all along (uniform profile): the strips' coefficients are the same,
+        # so their weights add up and one strip does the work of all
+        u, wl, wd, hl, hd = (v.sum(axis=0, keepdims=True) if v is not u else v[:1] for v in (u, wl, wd, hl, hd))
+        pp = None if pp is None else pp.sum(axis=0, keepdims=True)
     c = np.ascontiguousarray
-    return _SpinProblem(u=c(u), wl=c(gain * qa * np.abs(sinb)), wd=c(-gain * qa * cosb),
-                        hl=c(-k * w.side_sign * qa * cosb * lever), hd=c(-k * qa * sinb * lever),
-                        pp=c(qa * va) if cs.has_power else None, kar=kar,
+    return _SpinProblem(u=c(u), wl=c(wl), wd=c(wd), hl=c(hl), hd=c(hd),
+                        pp=None if pp is None else c(pp), kar=kar,
                         power_weight=-setup.rotor_count / setup.electrical_efficiency,
                         inv_max_power=1.0 / (setup.max_motor_power_w * (1 + _LIMIT_REL)),
                         inv_max_heel=1.0 / (setup.max_heeling_moment_nm * (1 + _LIMIT_REL)))
@@ -1019,19 +1047,18 @@ def _cell_peaks(x, f, d, ok):
     return np.where((ok1 | ok2) & (high > ends), high, -np.inf)
 
 
-def _breakpoints(pieces: _Pieces, u, a, b):
+def _breakpoints(pieces: _Pieces, u, a, b, kinks=()):
     """Angular speeds strictly between ``a`` and ``b`` (per entry) at which some strip's spin
-    ratio crosses a point of the coefficient table: (rows (count, entries) sorted, NaN beyond an
-    entry's own count; counts). Between them the net gain is one smooth function.
+    ratio crosses a point of the coefficient table, or at which the spin power's slope jumps
+    (``kinks``, the same for all entries): (rows (count, entries) sorted, NaN beyond an entry's
+    own count; counts). Between them the net gain is one smooth function.
     """
     if u.shape[0] > 1 and np.all(u == u[:1]):
         u = u[:1]                                     # one spin ratio all along (uniform wind)
     first, last = pieces.knots_inside(u * a, u * b)                 # (strips, entries)
     count = np.where(u > 0.0, np.maximum(last - first + 1, 0), 0)
-    most = int(count.max(initial=0))
+    most = max(1, int(count.max(initial=0)))
     total = count.sum(axis=0)
-    if most == 0:
-        return np.empty((0, a.size)), total
     r = np.arange(most)[:, None, None]
     j = np.minimum(first + r, pieces.x.size - 1)
     pts = np.where(r < count, pieces.x[j] / np.where(u > 0.0, u, 1.0), np.nan)
@@ -1042,14 +1069,19 @@ def _breakpoints(pieces: _Pieces, u, a, b):
     after = np.where(ends, pts * (1.0 + _KINK_SPLIT), np.nan)
     pts = np.where(ends, pts * (1.0 - _KINK_SPLIT), pts)
     total = total + ends.sum(axis=(0, 1))
-    pts = np.concatenate([pts.reshape(-1, a.size), after.reshape(-1, a.size)])
+    extra = []
+    for kink in kinks:                                               # the same split either side
+        inside = (a < kink) & (kink < b)
+        extra += [np.where(inside, kink * (1.0 - _KINK_SPLIT), np.nan), np.where(inside, kink * (1.0 + _KINK_SPLIT), np.nan)]
+        total = total + 2 * inside
+    pts = np.concatenate([pts.reshape(-1, a.size), after.reshape(-1, a.size)] + [e[None] for e in extra])
     pts = np.sort(pts.T, axis=1)                                     # (entries, ...), NaN last
     if total.max() > BREAKPOINTS_MAX:                                # very fine user tables
         pick = np.linspace(0.0, 1.0, BREAKPOINTS_MAX)[None, :] * np.maximum(total[:, None] - 1, 0)
         pts = np.take_along_axis(pts, pick.round().astype(np.intp), axis=1)
         pts = np.where(np.arange(BREAKPOINTS_MAX)[None, :] < total[:, None], pts, np.nan)
         total = np.minimum(total, BREAKPOINTS_MAX)
-    return pts[:, :int(total.max())].T, total
+    return pts[:, :int(total.max(initial=0))].T, total
 
 
 def _bend_weight(pieces: _Pieces, prob: _SpinProblem, h):
@@ -1284,12 +1316,17 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
     usable = (ok[:-1] | ok[1:]) & (top > 0.0)
     h = top / (k - 1)
     bend, kink = _bend_weight(pieces, prob, h)                       # (strips, N)
+    kinks, jumps = _skin_friction_kinks(setup)
+    power_kink = HERMITE_KINK_ERROR[0] * h * abs(prob.power_weight) * jumps.sum()
     # first a cap: every strip crosses each table point that any strip crosses in the cell
     first, last = pieces.knots_inside(x[:-1] * prob.u.min(axis=0), x[1:] * prob.u.max(axis=0))
-    cap = BUMP_BOUND_FACTOR * (np.maximum(last - first + 1, 0) * bend.sum(axis=0) + kink.sum(axis=0))
+    cap = BUMP_BOUND_FACTOR * (np.maximum(last - first + 1, 0) * bend.sum(axis=0) + kink.sum(axis=0) + power_kink)
     rows, cond = np.nonzero(usable & (high + cap > best_f))
-    bound = BUMP_BOUND_FACTOR * _bend_bound(pieces, prob.u[:, cond], bend[:, cond], kink[:, cond],
-                                            x[rows, cond], x[rows + 1, cond])
+    xa, xb = x[rows, cond], x[rows + 1, cond]
+    bound = _bend_bound(pieces, prob.u[:, cond], bend[:, cond], kink[:, cond], xa, xb)
+    for at, jump in zip(kinks, jumps):                               # the friction model's kinks
+        bound = bound + ((xa < at) & (at < xb)) * HERMITE_KINK_ERROR[0] * (xb - xa) * abs(prob.power_weight) * jump
+    bound *= BUMP_BOUND_FACTOR
     keep = high[rows, cond] + bound > best_f[cond]
     rows, cond = rows[keep], cond[keep]
     a, b = x[rows, cond], x[rows + 1, cond]
@@ -1335,7 +1372,7 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         #    point of the coefficient table (its curvature jumps there and small bumps start);
         #    between these points it is smooth and the cubic through neighbours models it
         #    closely. Cells with as many such points are evaluated together.
-        pts, count = _breakpoints(pieces, pe.u, a, b)
+        pts, count = _breakpoints(pieces, pe.u, a, b, kinks)
         order = np.argsort(count, kind="stable")
         counts = count[order]
         ps = pe.take(order)
