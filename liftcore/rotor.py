@@ -949,15 +949,16 @@ def _spin_problem(setup: RotorSetup, w: _Wind) -> _SpinProblem:
                         inv_max_heel=1.0 / (setup.max_heeling_moment_nm * (1 + _LIMIT_REL)))
 
 
-def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes: bool = True):
-    """(net gain [W], d(net gain)/d(omega) [W s] or None, limit margin) at angular speeds
-    ``omega`` of shape (..., N): the numbers of :func:`_evaluate`, fewer of them. The limit margin
-    max(P / P_max, |M_heel| / M_max) - 1 is <= 0 where both limits are kept."""
+def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes=True):
+    """(net gain [W], slope or None, limit margin) at angular speeds ``omega`` of shape (..., N):
+    the numbers of :func:`_evaluate`, fewer of them. The limit margin max(P / P_max,
+    |M_heel| / M_max) - 1 is <= 0 where both limits are kept. ``slopes``: True for d(net
+    gain)/d(omega) [W s], ``"margin"`` for d(margin)/d(omega) [s], False for none."""
     omega = np.asarray(omega, dtype=float)
     ex = (slice(None),) + (None,) * (omega.ndim - 1)
     u = prob.u[ex]
     sr = u * omega                                                   # (strips, ..., N)
-    values, derivs = pieces(sr, slopes)
+    values, derivs = pieces(sr, bool(slopes))
     cl, cd = values[0], values[1]
     if prob.kar:
         cd += prob.kar * (cl * cl)
@@ -966,7 +967,7 @@ def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, 
     f += wd * cd
     heel = prob.hl[ex] * cl
     heel += prob.hd[ex] * cd
-    heel = np.abs(heel.sum(axis=0))
+    heel = heel.sum(axis=0)
     if prob.pp is not None:
         strip_power = prob.pp[ex] * values[2]
         f += prob.power_weight * strip_power
@@ -976,12 +977,24 @@ def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, 
         power, power_slope = _skin_friction_power_and_slope(setup, omega)
         net = f.sum(axis=0)
         net += prob.power_weight * power
-    margin = np.maximum(power * prob.inv_max_power, heel * prob.inv_max_heel) - 1.0
+    by_power = power * prob.inv_max_power
+    by_heel = np.abs(heel) * prob.inv_max_heel
+    margin = np.maximum(by_power, by_heel) - 1.0
     if not slopes:
         return net, None, margin
     dcl, dcd = derivs[0], derivs[1]
     if prob.kar:
         dcd += (2.0 * prob.kar) * (cl * dcl)
+    if slopes == "margin":                                           # slope of the binding limit
+        dh = prob.hl[ex] * dcl
+        dh += prob.hd[ex] * dcd
+        dh *= u
+        dheel = np.copysign(dh.sum(axis=0), heel) * prob.inv_max_heel
+        if prob.pp is not None:
+            dpower = (prob.pp[ex] * derivs[2] * u).sum(axis=0)
+        else:
+            dpower = power_slope
+        return net, np.where(by_power >= by_heel, dpower * prob.inv_max_power, dheel), margin
     g = wl * dcl
     g += wd * dcd
     if prob.pp is not None:
@@ -993,7 +1006,7 @@ def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, 
     return net, slope, margin
 
 
-def _values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes: bool = True):
+def _values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes=True):
     """:func:`_spin_values` in pieces of at most ``CHUNK_ELEMENTS`` strip evaluations (the
     temporaries stay in the processor's cache); omega is (rows, N) or (N,)."""
     omega = np.asarray(omega, dtype=float)
@@ -1066,15 +1079,19 @@ def _breakpoints(pieces: _Pieces, u, a, b, kinks=()):
     # one just after, so that the cubics on either side get their own one-sided slope
     ends = (j == pieces.x.size - 1) | ((j == 0) & (pieces.lo > 0.0))
     ends &= r < count
-    after = np.where(ends, pts * (1.0 + _KINK_SPLIT), np.nan)
-    pts = np.where(ends, pts * (1.0 - _KINK_SPLIT), pts)
-    total = total + ends.sum(axis=(0, 1))
-    extra = []
+    rows = [pts.reshape(-1, a.size)]
+    if ends.any():
+        rows.append(np.where(ends, pts * (1.0 + _KINK_SPLIT), np.nan).reshape(-1, a.size))
+        rows[0] = np.where(ends, pts * (1.0 - _KINK_SPLIT), pts).reshape(-1, a.size)
+        total = total + ends.sum(axis=(0, 1))
     for kink in kinks:                                               # the same split either side
         inside = (a < kink) & (kink < b)
-        extra += [np.where(inside, kink * (1.0 - _KINK_SPLIT), np.nan), np.where(inside, kink * (1.0 + _KINK_SPLIT), np.nan)]
-        total = total + 2 * inside
-    pts = np.concatenate([pts.reshape(-1, a.size), after.reshape(-1, a.size)] + [e[None] for e in extra])
+        if inside.any():
+            rows += [np.where(inside, kink * (1.0 - _KINK_SPLIT), np.nan)[None],
+                     np.where(inside, kink * (1.0 + _KINK_SPLIT), np.nan)[None]]
+            total = total + 2 * inside
+    pts = np.concatenate(rows)
+    pts = pts[~np.isnan(pts).all(axis=1)]                            # rows no entry uses
     pts = np.sort(pts.T, axis=1)                                     # (entries, ...), NaN last
     if total.max() > BREAKPOINTS_MAX:                                # very fine user tables
         pick = np.linspace(0.0, 1.0, BREAKPOINTS_MAX)[None, :] * np.maximum(total[:, None] - 1, 0)
@@ -1177,13 +1194,16 @@ def _limit_windows(setup, pieces, prob, x, margin, tol):
 
 def _limit_boundary(setup, pieces, prob, keep, m_keep, brk, m_brk, tol):
     """Between a spin that keeps the limits (margin ``m_keep`` <= 0) and one that breaks them,
-    the spin on the keeping side within ``tol`` of where the margin changes sign: regula falsi
-    with the Illinois modification, bisection when the bracket has not halved in two steps."""
-    side = np.zeros(keep.size, dtype=np.int8)                     # last end moved: 1 keep, -1 break
+    the spin on the keeping side within ``tol`` of where the margin changes sign (or whose margin
+    is within ``BOUNDARY_MARGIN_TOL`` of zero). Newton steps on the margin (its slope from the
+    model) aimed just inside the limit, regula falsi where a step would leave the bracket,
+    bisection where the bracket has not halved in two steps."""
+    aim = 0.5 * (BOUNDARY_MARGIN_TOL + _MARGIN_ROUNDING)             # a margin just inside
     w1 = np.full(keep.size, np.inf)
     w2 = w1.copy()
     idx = np.arange(keep.size)
     out = keep.copy()
+    x_last = m_last = d_last = None
     for _ in range(BOUNDARY_STEPS_MAX):
         width = np.abs(brk - keep)
         live = (width > tol) & (m_keep < -BOUNDARY_MARGIN_TOL)
@@ -1191,23 +1211,25 @@ def _limit_boundary(setup, pieces, prob, keep, m_keep, brk, m_brk, tol):
             break
         if live.sum() < 0.5 * live.size:                             # drop the finished ones
             out[idx[~live]] = keep[~live]
-            idx, keep, m_keep, brk, m_brk, tol, side, w1, w2, width = (
-                v[live] for v in (idx, keep, m_keep, brk, m_brk, tol, side, w1, w2, width))
+            idx, keep, m_keep, brk, m_brk, tol, w1, w2, width = (
+                v[live] for v in (idx, keep, m_keep, brk, m_brk, tol, w1, w2, width))
+            if x_last is not None:
+                x_last, m_last, d_last = x_last[live], m_last[live], d_last[live]
             prob = prob.take(live)
             live = live[live]
         with np.errstate(divide="ignore", invalid="ignore"):
-            x = keep - m_keep * (brk - keep) / (m_brk - m_keep)
-        inside = np.abs(x - keep) < width
-        inside &= np.abs(x - brk) < width
+            x = keep - (m_keep + aim) * (brk - keep) / (m_brk - m_keep)
+            if x_last is not None:
+                newton = x_last - (m_last + aim) / d_last
+                x = np.where(np.abs(newton - keep) + np.abs(newton - brk) < width * (1.0 + 1e-12), newton, x)
+        inside = (np.abs(x - keep) < width) & (np.abs(x - brk) < width)
         x = np.where(inside & (width <= 0.5 * w2), x, 0.5 * (keep + brk))
         x = np.where(live, x, keep)                                  # finished: marks time
-        m = _values(setup, pieces, prob, x, slopes=False)[2]
+        _, dm, m = _values(setup, pieces, prob, x, slopes="margin")
         kept = (m <= -_MARGIN_ROUNDING) | ~live                      # inside, whatever the rounding
-        m_brk = np.where(kept & (side == 1), 0.5 * m_brk, m_brk)
-        m_keep = np.where(~kept & (side == -1), 0.5 * m_keep, m_keep)
         keep, m_keep = np.where(kept, x, keep), np.where(kept, m, m_keep)
         brk, m_brk = np.where(kept, brk, x), np.where(kept, m_brk, m)
-        side = np.where(kept, 1, -1).astype(np.int8)
+        x_last, m_last, d_last = x, m, dm
         w2, w1 = w1, width
     out[idx] = keep
     return out
@@ -1376,14 +1398,16 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         order = np.argsort(count, kind="stable")
         counts = count[order]
         ps = pe.take(order)
-        starts = np.searchsorted(counts, np.arange(counts[-1] + 2))
+        # groups of entries with about as many points (the few missing ones repeat the cell's end)
+        sizes = np.unique(np.concatenate([[0], np.minimum(2 * ((counts + 1) // 2), counts[-1])]))
+        starts = np.searchsorted(counts, np.append(sizes[:-1] + 1, counts[-1] + 1), side="left")
+        starts = np.concatenate([[0], starts])
         found = []                                                   # best sub-interval per entry
-        for c in range(counts[-1] + 1):
-            lo, hi = starts[c], starts[c + 1]
+        for c, lo, hi in zip(sizes, starts[:-1], starts[1:]):
             if hi == lo:
                 continue
             sel = order[lo:hi]
-            xs = np.vstack([a[sel], pts[:c, sel], b[sel]])
+            xs = np.vstack([a[sel], np.where(np.isnan(pts[:c, sel]), b[sel], pts[:c, sel]), b[sel]])
             fs, ds, ms = np.vstack([fa[sel], fb[sel]]), np.vstack([da[sel], db[sel]]), np.vstack([ma[sel], mb[sel]])
             if c:
                 fz, dz, mz = _values(setup, pieces, ps.take(slice(lo, hi)), xs[1:-1])
