@@ -436,17 +436,35 @@ def spin_power_skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio,
        Bird, Stewart & Lightfoot, Transport Phenomena, and the von Karman / Schlichting origin
        are from memory).
     """
+    return _skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio, density_kg_m3,
+                          kinematic_viscosity_m2_s)[0]
+
+
+def _skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio, density_kg_m3,
+                   kinematic_viscosity_m2_s, slope=False):
+    """(power [W], d(power)/d(omega) [W s] or None) of :func:`spin_power_skin_friction`.
+
+    Each part is a power of omega times the ITTC 1957 line or the disc's Re^-1/5 law, so the
+    slope is P/omega times 3 - 2/((log10 Re - 2) ln 10) (cylinder) or 2.8 (disc); 3 for both
+    where the Reynolds number is held at ``FRICTION_RE_MIN``.
+    """
     w = np.abs(np.asarray(omega_rad_s, dtype=float))
     r = 0.5 * diameter_m
     u = w * r
-    re = np.maximum(u * math.pi * diameter_m / kinematic_viscosity_m2_s, FRICTION_RE_MIN)
-    cf = 0.075 / (np.log10(re) - 2.0) ** 2
+    re_raw = u * math.pi * diameter_m / kinematic_viscosity_m2_s
+    lg = np.log10(np.maximum(re_raw, FRICTION_RE_MIN)) - 2.0
+    cf = 0.075 / lg ** 2
     p_cyl = 0.5 * density_kg_m3 * cf * u ** 3 * math.pi * diameter_m * height_m
     rd = 0.5 * diameter_m * max(end_plate_ratio, 1.0)
-    re_d = np.maximum(w * rd * rd / kinematic_viscosity_m2_s, FRICTION_RE_MIN)
-    cm = DISC_MOMENT_CONSTANT * re_d ** -0.2
+    red_raw = w * rd * rd / kinematic_viscosity_m2_s
+    cm = DISC_MOMENT_CONSTANT * np.maximum(red_raw, FRICTION_RE_MIN) ** -0.2
     p_disc = 0.5 * cm * density_kg_m3 * w ** 3 * rd ** 5
-    return p_cyl + p_disc
+    if not slope:
+        return p_cyl + p_disc, None
+    e_cyl = np.where(re_raw > FRICTION_RE_MIN, 3.0 - 2.0 / (lg * math.log(10.0)), 3.0)
+    e_disc = np.where(red_raw > FRICTION_RE_MIN, 2.8, 3.0)
+    safe = np.where(w > 0.0, w, 1.0)
+    return p_cyl + p_disc, np.where(w > 0.0, (e_cyl * p_cyl + e_disc * p_disc) / safe, 0.0)
 
 
 def rpm_from_spin_ratio(spin_ratio, apparent_wind_speed_m_s, diameter_m):
@@ -610,8 +628,8 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
        sharpest jumps of the table's derivatives), may rise above the best grid point that
        keeps the limits; adds stretches that keep the limits between grid points that break
        them (a heeling moment that falls and rises again: the limit margin is minimised);
-    3. where a limit starts binding inside a cell, finds the boundary (regula falsi, Illinois)
-       and keeps the part of the cell within the limits;
+    3. where a limit starts binding inside a cell, finds the boundary (Newton steps on the limit
+       margin, safeguarded) and keeps the part of the cell within the limits;
     4. evaluates the net gain and its slope at every crossing inside those cells, so that each
        sub-interval is smooth, and refines the sub-interval whose cubic peaks highest (cubic
        interpolation steps safeguarded by bisection) to ``BEST_SPIN_XTOL`` of the spin range or
@@ -840,30 +858,9 @@ class _Pieces:
 
 
 def _skin_friction_power_and_slope(setup: RotorSetup, omega):
-    """:func:`spin_power_skin_friction` for this rotor and its derivative d(P)/d(omega). [W], [W s]
-
-    Each part is a power of omega times the ITTC 1957 line or the disc's Re^-1/5 law, so the slope
-    is P/omega times 3 - 2/((log10 Re - 2) ln 10) (cylinder) or 2.8 (disc); 3 for both where the
-    Reynolds number is held at ``FRICTION_RE_MIN``.
-    """
-    w = np.abs(np.asarray(omega, dtype=float))
-    d, nu = setup.diameter_m, setup.kinematic_viscosity_m2_s
-    rho = setup.air_density_kg_m3
-    u = w * 0.5 * d
-    re_raw = u * math.pi * d / nu
-    re = np.maximum(re_raw, FRICTION_RE_MIN)
-    lg = np.log10(re) - 2.0
-    cf = 0.075 / lg ** 2
-    p_cyl = 0.5 * rho * cf * u ** 3 * math.pi * d * setup.height_m
-    rd = 0.5 * d * max(setup.end_plate_ratio, 1.0)
-    red_raw = w * rd * rd / nu
-    re_d = np.maximum(red_raw, FRICTION_RE_MIN)
-    p_disc = 0.5 * DISC_MOMENT_CONSTANT * re_d ** -0.2 * rho * w ** 3 * rd ** 5
-    e_cyl = np.where(re_raw > FRICTION_RE_MIN, 3.0 - 2.0 / (lg * math.log(10.0)), 3.0)
-    e_disc = np.where(red_raw > FRICTION_RE_MIN, 2.8, 3.0)
-    safe = np.where(w > 0.0, w, 1.0)
-    slope = np.where(w > 0.0, (e_cyl * p_cyl + e_disc * p_disc) / safe, 0.0)
-    return p_cyl + p_disc, slope
+    """:func:`spin_power_skin_friction` for this rotor and its derivative d(P)/d(omega). [W], [W s]"""
+    return _skin_friction(omega, setup.diameter_m, setup.height_m, setup.end_plate_ratio,
+                          setup.air_density_kg_m3, setup.kinematic_viscosity_m2_s, slope=True)
 
 
 def _skin_friction_kinks(setup: RotorSetup):
@@ -1128,19 +1125,18 @@ def _bend_bound(pieces: _Pieces, u, bend, kink, a, b):
     cubic through the cell's ends misses such a term by at most c_k J_k h^k, h = b - a, with
     c_k = ``HERMITE_KINK_ERROR`` (the largest error of cubic Hermite interpolation of
     (x - x0)_+^k / k! on a unit interval: 4/27, 1/61.9 and 1/192, found numerically; a test
-    checks them). J_k is at most the sharpest jump of
-    CL, CD, CP and CL^2 in the table times the strip's weights and (d SR / d omega)^k: ``bend``
-    and ``kink`` per strip from :func:`_bend_weight`, times the crossings counted here. Terms of
-    fourth and higher order and the cubic's error on the smooth part are left out: the caller
-    applies a safety factor.
+    checks them). J_k is at most the sharpest jump of CL, CD, CP and CL^2 in the table times the
+    strip's weights and (d SR / d omega)^k: ``bend`` and ``kink`` per strip from
+    :func:`_bend_weight`, times the crossings counted here. (The skin-friction model's own slope
+    jumps are added by the caller.) Terms of fourth and higher order and the cubic's error on the
+    smooth part are left out: the caller applies a safety factor.
     """
     first, last = pieces.knots_inside(u * a, u * b)                  # (strips, cells)
-    first = np.clip(first, 0, pieces.x.size)
-    stop = np.clip(last + 1, first, pieces.x.size)
-    ends = stop == pieces.x.size                                     # crosses the top of the table
+    top = pieces.x.size - 1
+    ends = (first <= top) & (last >= top)                            # crosses the top of the table
     if pieces.lo > 0.0:
-        ends = ends | ((first == 0) & (stop > 0))                   # ... or its held bottom
-    return ((stop - first) * bend + ends * kink).sum(axis=0)
+        ends |= (first <= 0) & (last >= 0)                           # ... or its held bottom
+    return (np.maximum(last - first + 1, 0) * bend + ends * kink).sum(axis=0)
 
 
 def _limit_windows(setup, pieces, prob, x, margin, tol):
