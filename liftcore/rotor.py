@@ -1098,6 +1098,28 @@ def _breakpoints(pieces: _Pieces, u, a, b, kinks=()):
     return pts[:, :int(total.max(initial=0))].T, total
 
 
+def _where_it_may_beat(pts, a, b, fa, fb, da, db, slack, best):
+    """The points of :func:`_breakpoints` (rows, entries) that border a stretch where the net gain
+    may still beat ``best``: where the cubic through the cell's ends plus ``slack`` (the bound on
+    what the bends inside can add) rises above it. Elsewhere nothing better can be found, so the
+    points there are dropped; (points, counts) as :func:`_breakpoints` returns them."""
+    if pts.shape[0] == 0:
+        return pts, np.zeros(a.size, dtype=np.intp)
+    ends = np.vstack([a, np.where(np.isnan(pts), b, pts), b])
+    h = b - a
+    with np.errstate(divide="ignore", invalid="ignore"):
+        s = (ends - a) / h
+    cubic = fa + s * (h * da + s * (3.0 * (fb - fa) - h * (2.0 * da + db) + s * (2.0 * (fa - fb) + h * (da + db))))
+    top = np.maximum(cubic[:-1], cubic[1:])                         # highest on each stretch ...
+    px, pv = _cubic_peak(a, b, fa, fb, da, db)
+    top = np.where((px >= ends[:-1]) & (px <= ends[1:]), np.maximum(top, pv), top)   # ... with its peak
+    may = top + slack > best
+    keep = (may[:-1] | may[1:]) & ~np.isnan(pts)
+    pts = np.sort(np.where(keep, pts, np.nan).T, axis=1).T           # NaN last
+    count = keep.sum(axis=0)
+    return pts[:int(count.max(initial=0))], count
+
+
 def _bend_weight(pieces: _Pieces, prob: _SpinProblem, h):
     """Per strip and condition, the most that one crossing of a table point inside a cell of
     width ``h`` can make the net gain depart from the cubic through the cell's ends: (any
@@ -1346,7 +1368,7 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         bound = bound + ((xa < at) & (at < xb)) * HERMITE_KINK_ERROR[0] * (xb - xa) * abs(prob.power_weight) * jump
     bound *= BUMP_BOUND_FACTOR
     keep = high[rows, cond] + bound > best_f[cond]
-    rows, cond = rows[keep], cond[keep]
+    rows, cond, slack = rows[keep], cond[keep], bound[keep]
     a, b = x[rows, cond], x[rows + 1, cond]
     fa, fb, da, db = f[rows, cond], f[rows + 1, cond], d[rows, cond], d[rows + 1, cond]
     ma, mb = margin[rows, cond], margin[rows + 1, cond]
@@ -1362,6 +1384,7 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         cand.append((np.concatenate([wc, wc]), np.concatenate([wa, wb]),
                      np.where(mw.ravel() <= 0.0, fw.ravel(), -np.inf)))
         cond, a, b = np.concatenate([cond, wc]), np.concatenate([a, wa]), np.concatenate([b, wb])
+        slack = np.concatenate([slack, np.full(wc.size, np.inf)])    # no bound worked out there
         fa, fb = np.concatenate([fa, fw[0]]), np.concatenate([fb, fw[1]])
         da, db = np.concatenate([da, dw[0]]), np.concatenate([db, dw[1]])
         ma, mb = np.concatenate([ma, mw[0]]), np.concatenate([mb, mw[1]])
@@ -1391,6 +1414,7 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         #    between these points it is smooth and the cubic through neighbours models it
         #    closely. Cells with as many such points are evaluated together.
         pts, count = _breakpoints(pieces, pe.u, a, b, kinks)
+        pts, count = _where_it_may_beat(pts, a, b, fa, fb, da, db, slack, best_f[cond])
         order = np.argsort(count, kind="stable")
         counts = count[order]
         ps = pe.take(order)
