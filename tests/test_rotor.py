@@ -264,11 +264,11 @@ def test_best_spin_beats_every_fixed_spin_ratio(case):
 
 #: How far below the true best the search may stay, as a fraction of the largest |net gain| along
 #: the spin range (at least 1 W). The search locates a maximum or a limit boundary to
-#: rotor.BEST_SPIN_XTOL = 1e-9 of the spin range, stops where the predicted rise is below
-#: rotor.BEST_SPIN_FTOL = 1e-11 of the largest |net gain|, keeps a boundary within
-#: rotor.BOUNDARY_MARGIN_TOL = 1e-12 of a limit and splits slope jumps 1e-12 apart: each costs
-#: well under 1e-8 of the largest |net gain| (the net gain changes by at most a few times its
-#: range per unit of relative spin); 1e-7 leaves a margin of ten and more.
+#: rotor.BEST_SPIN_XTOL = 1e-9 of the spin range (so it misses by at most that times its slope
+#: times the range: a few times 1e-9 of the largest |net gain| where the slope is steep, far less
+#: at a maximum), stops where the predicted rise is below rotor.BEST_SPIN_FTOL = 1e-11 of the
+#: largest |net gain|, keeps a boundary within rotor.BOUNDARY_MARGIN_TOL = 1e-12 of a limit and
+#: splits slope jumps 1e-12 apart; 1e-7 leaves a margin of ten and more over all of them.
 SEARCH_TOLERANCE = 1e-7
 
 
@@ -329,7 +329,7 @@ REGRESSION_CASES = {
 def test_best_spin_regression_cases_reach_a_dense_scan(name):
     kw, condition = REGRESSION_CASES[name]
     setup = make_setup(**kw)
-    if condition is None:                       # condition 0 of the property test's seed 1
+    if condition is None:                       # condition 0 of the property test's random seed 1
         rng = np.random.default_rng(1)
         condition = (rng.uniform(0, 9, 40)[0], rng.uniform(0, 20, 40)[0], rng.uniform(-np.pi, np.pi, 40)[0])
     best = rotor.best_operation(setup, *condition)
