@@ -6,10 +6,11 @@ constraints, the stopped rotor always allowed).
 
 * The **scan + Brent loop** is what a careful engineer would write with SciPy, one condition at a
   time: the net gain on a scan of ``rotor.BEST_GRID_POINTS`` spins over the whole range (the
-  vectorised search's grid), then ``scipy.optimize.minimize_scalar(method="bounded")`` on the
-  bracket around the best scan point that keeps the limits, cut with ``scipy.optimize.brentq``
-  where a neighbour breaks a limit; the best of the scan point, the bounded optimum and the
-  boundary is kept. The speed-up and the net-gain target are measured against it.
+  vectorised search's grid), every limit boundary between scan points located with
+  ``scipy.optimize.brentq``, then ``scipy.optimize.minimize_scalar(method="bounded")`` on the
+  stretch within the limits, one scan step either way, around the best of the scan points and
+  boundaries; the best of all is kept. The speed-up and the net-gain target are measured
+  against it.
 * The **naive Brent loop** (the earlier version of this benchmark): ``brentq`` for where a limit
   starts to bind (assuming it grows with spin), then bounded Brent alone over the whole range
   below it. It stops on whichever local maximum it meets first; its shortfall against a dense
@@ -77,8 +78,9 @@ def _keeps(margin):
 
 
 def scan_and_brent(setup: rotor.RotorSetup, vs, vt, g) -> np.ndarray:
-    """Net gain of the best spin, one condition at a time: a scan, then bounded Brent around the
-    best scan point (cut at a limit boundary found with brentq)."""
+    """Net gain of the best spin, one condition at a time: a scan; every limit boundary between
+    scan points located with brentq; bounded Brent on the stretch within the limits around the
+    best of the scan points and boundaries."""
     k = rotor.BEST_GRID_POINTS
     out = np.empty(vs.size)
     for i in range(vs.size):
@@ -88,24 +90,32 @@ def scan_and_brent(setup: rotor.RotorSetup, vs, vt, g) -> np.ndarray:
             continue
         grid = np.linspace(0.0, one.top, k)
         net, margin = one.evaluate(grid)
-        ok = _keeps(margin)
+        keeps = _keeps(margin)
+        ok = keeps.copy()
         ok[0] = True                                      # the stopped rotor is always allowed
         j = int(np.argmax(np.where(ok, net, -np.inf)))
-        best = net[j]
-        ends = []
-        for nb in (j - 1, j + 1):
-            if not 0 <= nb < k or not _keeps(margin[j]):  # (a stopped rotor beyond the limits)
-                ends.append(grid[j])
-            elif _keeps(margin[nb]):
-                ends.append(grid[nb])
-            else:                                         # a limit binds between j and nb
-                edge = brentq(one.margin, grid[j], grid[nb], xtol=1e-12 * one.top)
-                if not _keeps(one.margin(edge)):          # brentq may land just outside
-                    edge = grid[j] + (edge - grid[j]) * (1.0 - 1e-9)
-                if _keeps(one.margin(edge)):
-                    best = max(best, one.net(edge))
-                ends.append(edge)
-        lo, hi = min(ends), max(ends)
+        best_x, best = grid[j], net[j]
+        edges = []                                        # (boundary, True if it keeps below)
+        for c in np.flatnonzero(keeps[:-1] != keeps[1:]):
+            inside = grid[c] if keeps[c] else grid[c + 1]
+            edge = brentq(one.margin, grid[c], grid[c + 1], xtol=1e-12 * one.top)
+            if not _keeps(one.margin(edge)):              # brentq may land just outside
+                edge = inside + (edge - inside) * (1.0 - 1e-9)
+            if _keeps(one.margin(edge)):
+                edges.append((edge, bool(keeps[c])))
+                if one.net(edge) > best:
+                    best_x, best = edge, one.net(edge)
+        cell = grid[1]
+        lo, hi = max(0.0, best_x - cell), min(one.top, best_x + cell)
+        for edge, below in edges:
+            if edge == best_x:
+                lo, hi = (lo, edge) if below else (edge, hi)
+            elif edge < best_x:
+                lo = max(lo, edge)
+            else:
+                hi = min(hi, edge)
+        if best_x == 0.0 and not keeps[0]:                # only the stopped rotor there
+            hi = lo
         if hi > lo:
             opt = minimize_scalar(lambda x: -one.net(x), bounds=(lo, hi), method="bounded",
                                   options={"xatol": 1e-9 * one.top})

@@ -436,17 +436,35 @@ def spin_power_skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio,
        Bird, Stewart & Lightfoot, Transport Phenomena, and the von Karman / Schlichting origin
        are from memory).
     """
+    return _skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio, density_kg_m3,
+                          kinematic_viscosity_m2_s)[0]
+
+
+def _skin_friction(omega_rad_s, diameter_m, height_m, end_plate_ratio, density_kg_m3,
+                   kinematic_viscosity_m2_s, slope=False):
+    """(power [W], d(power)/d(omega) [W s] or None) of :func:`spin_power_skin_friction`.
+
+    Each part is a power of omega times the ITTC 1957 line or the disc's Re^-1/5 law, so the
+    slope is P/omega times 3 - 2/((log10 Re - 2) ln 10) (cylinder) or 2.8 (disc); 3 for both
+    where the Reynolds number is held at ``FRICTION_RE_MIN``.
+    """
     w = np.abs(np.asarray(omega_rad_s, dtype=float))
     r = 0.5 * diameter_m
     u = w * r
-    re = np.maximum(u * math.pi * diameter_m / kinematic_viscosity_m2_s, FRICTION_RE_MIN)
-    cf = 0.075 / (np.log10(re) - 2.0) ** 2
+    re_raw = u * math.pi * diameter_m / kinematic_viscosity_m2_s
+    lg = np.log10(np.maximum(re_raw, FRICTION_RE_MIN)) - 2.0
+    cf = 0.075 / lg ** 2
     p_cyl = 0.5 * density_kg_m3 * cf * u ** 3 * math.pi * diameter_m * height_m
     rd = 0.5 * diameter_m * max(end_plate_ratio, 1.0)
-    re_d = np.maximum(w * rd * rd / kinematic_viscosity_m2_s, FRICTION_RE_MIN)
-    cm = DISC_MOMENT_CONSTANT * re_d ** -0.2
+    red_raw = w * rd * rd / kinematic_viscosity_m2_s
+    cm = DISC_MOMENT_CONSTANT * np.maximum(red_raw, FRICTION_RE_MIN) ** -0.2
     p_disc = 0.5 * cm * density_kg_m3 * w ** 3 * rd ** 5
-    return p_cyl + p_disc
+    if not slope:
+        return p_cyl + p_disc, None
+    e_cyl = np.where(re_raw > FRICTION_RE_MIN, 3.0 - 2.0 / (lg * math.log(10.0)), 3.0)
+    e_disc = np.where(red_raw > FRICTION_RE_MIN, 2.8, 3.0)
+    safe = np.where(w > 0.0, w, 1.0)
+    return p_cyl + p_disc, np.where(w > 0.0, (e_cyl * p_cyl + e_disc * p_disc) / safe, 0.0)
 
 
 def rpm_from_spin_ratio(spin_ratio, apparent_wind_speed_m_s, diameter_m):
@@ -610,8 +628,8 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
        sharpest jumps of the table's derivatives), may rise above the best grid point that
        keeps the limits; adds stretches that keep the limits between grid points that break
        them (a heeling moment that falls and rises again: the limit margin is minimised);
-    3. where a limit starts binding inside a cell, finds the boundary (regula falsi, Illinois)
-       and keeps the part of the cell within the limits;
+    3. where a limit starts binding inside a cell, finds the boundary (Newton steps on the limit
+       margin, safeguarded) and keeps the part of the cell within the limits;
     4. evaluates the net gain and its slope at every crossing inside those cells, so that each
        sub-interval is smooth, and refines the sub-interval whose cubic peaks highest (cubic
        interpolation steps safeguarded by bisection) to ``BEST_SPIN_XTOL`` of the spin range or
@@ -840,30 +858,30 @@ class _Pieces:
 
 
 def _skin_friction_power_and_slope(setup: RotorSetup, omega):
-    """:func:`spin_power_skin_friction` for this rotor and its derivative d(P)/d(omega). [W], [W s]
+    """:func:`spin_power_skin_friction` for this rotor and its derivative d(P)/d(omega). [W], [W s]"""
+    return _skin_friction(omega, setup.diameter_m, setup.height_m, setup.end_plate_ratio,
+                          setup.air_density_kg_m3, setup.kinematic_viscosity_m2_s, slope=True)
 
-    Each part is a power of omega times the ITTC 1957 line or the disc's Re^-1/5 law, so the slope
-    is P/omega times 3 - 2/((log10 Re - 2) ln 10) (cylinder) or 2.8 (disc); 3 for both where the
-    Reynolds number is held at ``FRICTION_RE_MIN``.
+
+def _skin_friction_kinks(setup: RotorSetup):
+    """Where the skin-friction model's slope jumps: the Reynolds number of the cylinder or of
+    the end plate reaches ``FRICTION_RE_MIN`` (held below it). Returns (omega [rad/s], |jump of
+    d(P)/d(omega)| [W s]) for the two parts; empty when the set has a power coefficient.
+
+    Below the point a part grows as omega^3; above it the cylinder's slope factor is
+    3 - 2/((log10 Re - 2) ln 10) and the disc's 2.8 (see :func:`_skin_friction_power_and_slope`),
+    so the slope drops by P/omega times 2/((log10 Re_min - 2) ln 10), or 0.2.
     """
-    w = np.abs(np.asarray(omega, dtype=float))
-    d, nu = setup.diameter_m, setup.kinematic_viscosity_m2_s
-    rho = setup.air_density_kg_m3
-    u = w * 0.5 * d
-    re_raw = u * math.pi * d / nu
-    re = np.maximum(re_raw, FRICTION_RE_MIN)
-    lg = np.log10(re) - 2.0
-    cf = 0.075 / lg ** 2
-    p_cyl = 0.5 * rho * cf * u ** 3 * math.pi * d * setup.height_m
-    rd = 0.5 * d * max(setup.end_plate_ratio, 1.0)
-    red_raw = w * rd * rd / nu
-    re_d = np.maximum(red_raw, FRICTION_RE_MIN)
-    p_disc = 0.5 * DISC_MOMENT_CONSTANT * re_d ** -0.2 * rho * w ** 3 * rd ** 5
-    e_cyl = np.where(re_raw > FRICTION_RE_MIN, 3.0 - 2.0 / (lg * math.log(10.0)), 3.0)
-    e_disc = np.where(red_raw > FRICTION_RE_MIN, 2.8, 3.0)
-    safe = np.where(w > 0.0, w, 1.0)
-    slope = np.where(w > 0.0, (e_cyl * p_cyl + e_disc * p_disc) / safe, 0.0)
-    return p_cyl + p_disc, slope
+    if setup.coefficients.has_power:
+        return np.empty(0), np.empty(0)
+    d, nu, rho = setup.diameter_m, setup.kinematic_viscosity_m2_s, setup.air_density_kg_m3
+    r, rd = 0.5 * d, 0.5 * d * max(setup.end_plate_ratio, 1.0)
+    lg = math.log10(FRICTION_RE_MIN) - 2.0
+    w_cyl, w_disc = FRICTION_RE_MIN * nu / (math.pi * d * r), FRICTION_RE_MIN * nu / (rd * rd)
+    p_cyl = 0.5 * rho * (0.075 / lg ** 2) * (w_cyl * r) ** 3 * math.pi * d * setup.height_m
+    p_disc = 0.5 * DISC_MOMENT_CONSTANT * FRICTION_RE_MIN ** -0.2 * rho * w_disc ** 3 * rd ** 5
+    jump = [p_cyl * 2.0 / (lg * math.log(10.0)) / w_cyl, 0.2 * p_disc / w_disc]
+    return np.array([w_cyl, w_disc]), np.array(jump)
 
 
 @dataclass(frozen=True)
@@ -912,24 +930,32 @@ def _spin_problem(setup: RotorSetup, w: _Wind) -> _SpinProblem:
     if setup.correct_aspect_ratio:
         set_ar = coef.effective_aspect_ratio_hoerner(cs.aspect_ratio, cs.end_plate_ratio)
         kar = float((1.0 / setup.effective_aspect_ratio - 1.0 / set_ar) / (math.pi * coef.SPAN_EFFICIENCY))
+    wl, wd = gain * qa * np.abs(sinb), -gain * qa * cosb
+    hl, hd = -k * w.side_sign * qa * cosb * lever, -k * qa * sinb * lever
+    pp = qa * va if cs.has_power else None
+    if u.shape[0] > 1 and np.all(u == u[:1]):
+        # one apparent wind all along (uniform profile): the strips' coefficients are the same,
+        # so their weights add up and one strip does the work of all
+        u, wl, wd, hl, hd = (v.sum(axis=0, keepdims=True) if v is not u else v[:1] for v in (u, wl, wd, hl, hd))
+        pp = None if pp is None else pp.sum(axis=0, keepdims=True)
     c = np.ascontiguousarray
-    return _SpinProblem(u=c(u), wl=c(gain * qa * np.abs(sinb)), wd=c(-gain * qa * cosb),
-                        hl=c(-k * w.side_sign * qa * cosb * lever), hd=c(-k * qa * sinb * lever),
-                        pp=c(qa * va) if cs.has_power else None, kar=kar,
+    return _SpinProblem(u=c(u), wl=c(wl), wd=c(wd), hl=c(hl), hd=c(hd),
+                        pp=None if pp is None else c(pp), kar=kar,
                         power_weight=-setup.rotor_count / setup.electrical_efficiency,
                         inv_max_power=1.0 / (setup.max_motor_power_w * (1 + _LIMIT_REL)),
                         inv_max_heel=1.0 / (setup.max_heeling_moment_nm * (1 + _LIMIT_REL)))
 
 
-def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes: bool = True):
-    """(net gain [W], d(net gain)/d(omega) [W s] or None, limit margin) at angular speeds
-    ``omega`` of shape (..., N): the numbers of :func:`_evaluate`, fewer of them. The limit margin
-    max(P / P_max, |M_heel| / M_max) - 1 is <= 0 where both limits are kept."""
+def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes=True):
+    """(net gain [W], slope or None, limit margin) at angular speeds ``omega`` of shape (..., N):
+    the numbers of :func:`_evaluate`, fewer of them. The limit margin max(P / P_max,
+    |M_heel| / M_max) - 1 is <= 0 where both limits are kept. ``slopes``: True for d(net
+    gain)/d(omega) [W s], ``"margin"`` for d(margin)/d(omega) [s], False for none."""
     omega = np.asarray(omega, dtype=float)
     ex = (slice(None),) + (None,) * (omega.ndim - 1)
     u = prob.u[ex]
     sr = u * omega                                                   # (strips, ..., N)
-    values, derivs = pieces(sr, slopes)
+    values, derivs = pieces(sr, bool(slopes))
     cl, cd = values[0], values[1]
     if prob.kar:
         cd += prob.kar * (cl * cl)
@@ -938,7 +964,7 @@ def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, 
     f += wd * cd
     heel = prob.hl[ex] * cl
     heel += prob.hd[ex] * cd
-    heel = np.abs(heel.sum(axis=0))
+    heel = heel.sum(axis=0)
     if prob.pp is not None:
         strip_power = prob.pp[ex] * values[2]
         f += prob.power_weight * strip_power
@@ -948,12 +974,24 @@ def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, 
         power, power_slope = _skin_friction_power_and_slope(setup, omega)
         net = f.sum(axis=0)
         net += prob.power_weight * power
-    margin = np.maximum(power * prob.inv_max_power, heel * prob.inv_max_heel) - 1.0
+    by_power = power * prob.inv_max_power
+    by_heel = np.abs(heel) * prob.inv_max_heel
+    margin = np.maximum(by_power, by_heel) - 1.0
     if not slopes:
         return net, None, margin
     dcl, dcd = derivs[0], derivs[1]
     if prob.kar:
         dcd += (2.0 * prob.kar) * (cl * dcl)
+    if slopes == "margin":                                           # slope of the binding limit
+        dh = prob.hl[ex] * dcl
+        dh += prob.hd[ex] * dcd
+        dh *= u
+        dheel = np.copysign(dh.sum(axis=0), heel) * prob.inv_max_heel
+        if prob.pp is not None:
+            dpower = (prob.pp[ex] * derivs[2] * u).sum(axis=0)
+        else:
+            dpower = power_slope
+        return net, np.where(by_power >= by_heel, dpower * prob.inv_max_power, dheel), margin
     g = wl * dcl
     g += wd * dcd
     if prob.pp is not None:
@@ -965,7 +1003,7 @@ def _spin_values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, 
     return net, slope, margin
 
 
-def _values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes: bool = True):
+def _values(setup: RotorSetup, pieces: _Pieces, prob: _SpinProblem, omega, slopes=True):
     """:func:`_spin_values` in pieces of at most ``CHUNK_ELEMENTS`` strip evaluations (the
     temporaries stay in the processor's cache); omega is (rows, N) or (N,)."""
     omega = np.asarray(omega, dtype=float)
@@ -1019,19 +1057,18 @@ def _cell_peaks(x, f, d, ok):
     return np.where((ok1 | ok2) & (high > ends), high, -np.inf)
 
 
-def _breakpoints(pieces: _Pieces, u, a, b):
+def _breakpoints(pieces: _Pieces, u, a, b, kinks=()):
     """Angular speeds strictly between ``a`` and ``b`` (per entry) at which some strip's spin
-    ratio crosses a point of the coefficient table: (rows (count, entries) sorted, NaN beyond an
-    entry's own count; counts). Between them the net gain is one smooth function.
+    ratio crosses a point of the coefficient table, or at which the spin power's slope jumps
+    (``kinks``, the same for all entries): (rows (count, entries) sorted, NaN beyond an entry's
+    own count; counts). Between them the net gain is one smooth function.
     """
     if u.shape[0] > 1 and np.all(u == u[:1]):
         u = u[:1]                                     # one spin ratio all along (uniform wind)
     first, last = pieces.knots_inside(u * a, u * b)                 # (strips, entries)
     count = np.where(u > 0.0, np.maximum(last - first + 1, 0), 0)
-    most = int(count.max(initial=0))
+    most = max(1, int(count.max(initial=0)))
     total = count.sum(axis=0)
-    if most == 0:
-        return np.empty((0, a.size)), total
     r = np.arange(most)[:, None, None]
     j = np.minimum(first + r, pieces.x.size - 1)
     pts = np.where(r < count, pieces.x[j] / np.where(u > 0.0, u, 1.0), np.nan)
@@ -1039,17 +1076,48 @@ def _breakpoints(pieces: _Pieces, u, a, b):
     # one just after, so that the cubics on either side get their own one-sided slope
     ends = (j == pieces.x.size - 1) | ((j == 0) & (pieces.lo > 0.0))
     ends &= r < count
-    after = np.where(ends, pts * (1.0 + _KINK_SPLIT), np.nan)
-    pts = np.where(ends, pts * (1.0 - _KINK_SPLIT), pts)
-    total = total + ends.sum(axis=(0, 1))
-    pts = np.concatenate([pts.reshape(-1, a.size), after.reshape(-1, a.size)])
+    rows = [pts.reshape(-1, a.size)]
+    if ends.any():
+        rows.append(np.where(ends, pts * (1.0 + _KINK_SPLIT), np.nan).reshape(-1, a.size))
+        rows[0] = np.where(ends, pts * (1.0 - _KINK_SPLIT), pts).reshape(-1, a.size)
+        total = total + ends.sum(axis=(0, 1))
+    for kink in kinks:                                               # the same split either side
+        inside = (a < kink) & (kink < b)
+        if inside.any():
+            rows += [np.where(inside, kink * (1.0 - _KINK_SPLIT), np.nan)[None],
+                     np.where(inside, kink * (1.0 + _KINK_SPLIT), np.nan)[None]]
+            total = total + 2 * inside
+    pts = np.concatenate(rows)
+    pts = pts[~np.isnan(pts).all(axis=1)]                            # rows no entry uses
     pts = np.sort(pts.T, axis=1)                                     # (entries, ...), NaN last
     if total.max() > BREAKPOINTS_MAX:                                # very fine user tables
         pick = np.linspace(0.0, 1.0, BREAKPOINTS_MAX)[None, :] * np.maximum(total[:, None] - 1, 0)
         pts = np.take_along_axis(pts, pick.round().astype(np.intp), axis=1)
         pts = np.where(np.arange(BREAKPOINTS_MAX)[None, :] < total[:, None], pts, np.nan)
         total = np.minimum(total, BREAKPOINTS_MAX)
-    return pts[:, :int(total.max())].T, total
+    return pts[:, :int(total.max(initial=0))].T, total
+
+
+def _where_it_may_beat(pts, a, b, fa, fb, da, db, slack, best):
+    """The points of :func:`_breakpoints` (rows, entries) that border a stretch where the net gain
+    may still beat ``best``: where the cubic through the cell's ends plus ``slack`` (the bound on
+    what the bends inside can add) rises above it. Elsewhere nothing better can be found, so the
+    points there are dropped; (points, counts) as :func:`_breakpoints` returns them."""
+    if pts.shape[0] == 0:
+        return pts, np.zeros(a.size, dtype=np.intp)
+    ends = np.vstack([a, np.where(np.isnan(pts), b, pts), b])
+    h = b - a
+    with np.errstate(divide="ignore", invalid="ignore"):
+        s = (ends - a) / h
+    cubic = fa + s * (h * da + s * (3.0 * (fb - fa) - h * (2.0 * da + db) + s * (2.0 * (fa - fb) + h * (da + db))))
+    top = np.maximum(cubic[:-1], cubic[1:])                         # highest on each stretch ...
+    px, pv = _cubic_peak(a, b, fa, fb, da, db)
+    top = np.where((px >= ends[:-1]) & (px <= ends[1:]), np.maximum(top, pv), top)   # ... with its peak
+    may = top + slack > best
+    keep = (may[:-1] | may[1:]) & ~np.isnan(pts)
+    pts = np.sort(np.where(keep, pts, np.nan).T, axis=1).T           # NaN last
+    count = keep.sum(axis=0)
+    return pts[:int(count.max(initial=0))], count
 
 
 def _bend_weight(pieces: _Pieces, prob: _SpinProblem, h):
@@ -1079,19 +1147,18 @@ def _bend_bound(pieces: _Pieces, u, bend, kink, a, b):
     cubic through the cell's ends misses such a term by at most c_k J_k h^k, h = b - a, with
     c_k = ``HERMITE_KINK_ERROR`` (the largest error of cubic Hermite interpolation of
     (x - x0)_+^k / k! on a unit interval: 4/27, 1/61.9 and 1/192, found numerically; a test
-    checks them). J_k is at most the sharpest jump of
-    CL, CD, CP and CL^2 in the table times the strip's weights and (d SR / d omega)^k: ``bend``
-    and ``kink`` per strip from :func:`_bend_weight`, times the crossings counted here. Terms of
-    fourth and higher order and the cubic's error on the smooth part are left out: the caller
-    applies a safety factor.
+    checks them). J_k is at most the sharpest jump of CL, CD, CP and CL^2 in the table times the
+    strip's weights and (d SR / d omega)^k: ``bend`` and ``kink`` per strip from
+    :func:`_bend_weight`, times the crossings counted here. (The skin-friction model's own slope
+    jumps are added by the caller.) Terms of fourth and higher order and the cubic's error on the
+    smooth part are left out: the caller applies a safety factor.
     """
     first, last = pieces.knots_inside(u * a, u * b)                  # (strips, cells)
-    first = np.clip(first, 0, pieces.x.size)
-    stop = np.clip(last + 1, first, pieces.x.size)
-    ends = stop == pieces.x.size                                     # crosses the top of the table
+    top = pieces.x.size - 1
+    ends = (first <= top) & (last >= top)                            # crosses the top of the table
     if pieces.lo > 0.0:
-        ends = ends | ((first == 0) & (stop > 0))                   # ... or its held bottom
-    return ((stop - first) * bend + ends * kink).sum(axis=0)
+        ends |= (first <= 0) & (last >= 0)                           # ... or its held bottom
+    return (np.maximum(last - first + 1, 0) * bend + ends * kink).sum(axis=0)
 
 
 def _limit_windows(setup, pieces, prob, x, margin, tol):
@@ -1145,13 +1212,16 @@ def _limit_windows(setup, pieces, prob, x, margin, tol):
 
 def _limit_boundary(setup, pieces, prob, keep, m_keep, brk, m_brk, tol):
     """Between a spin that keeps the limits (margin ``m_keep`` <= 0) and one that breaks them,
-    the spin on the keeping side within ``tol`` of where the margin changes sign: regula falsi
-    with the Illinois modification, bisection when the bracket has not halved in two steps."""
-    side = np.zeros(keep.size, dtype=np.int8)                     # last end moved: 1 keep, -1 break
+    the spin on the keeping side within ``tol`` of where the margin changes sign (or whose margin
+    is within ``BOUNDARY_MARGIN_TOL`` of zero). Newton steps on the margin (its slope from the
+    model) aimed just inside the limit, regula falsi where a step would leave the bracket,
+    bisection where the bracket has not halved in two steps."""
+    aim = 0.5 * (BOUNDARY_MARGIN_TOL + _MARGIN_ROUNDING)             # a margin just inside
     w1 = np.full(keep.size, np.inf)
     w2 = w1.copy()
     idx = np.arange(keep.size)
     out = keep.copy()
+    x_last = m_last = d_last = None
     for _ in range(BOUNDARY_STEPS_MAX):
         width = np.abs(brk - keep)
         live = (width > tol) & (m_keep < -BOUNDARY_MARGIN_TOL)
@@ -1159,23 +1229,25 @@ def _limit_boundary(setup, pieces, prob, keep, m_keep, brk, m_brk, tol):
             break
         if live.sum() < 0.5 * live.size:                             # drop the finished ones
             out[idx[~live]] = keep[~live]
-            idx, keep, m_keep, brk, m_brk, tol, side, w1, w2, width = (
-                v[live] for v in (idx, keep, m_keep, brk, m_brk, tol, side, w1, w2, width))
+            idx, keep, m_keep, brk, m_brk, tol, w1, w2, width = (
+                v[live] for v in (idx, keep, m_keep, brk, m_brk, tol, w1, w2, width))
+            if x_last is not None:
+                x_last, m_last, d_last = x_last[live], m_last[live], d_last[live]
             prob = prob.take(live)
             live = live[live]
         with np.errstate(divide="ignore", invalid="ignore"):
-            x = keep - m_keep * (brk - keep) / (m_brk - m_keep)
-        inside = np.abs(x - keep) < width
-        inside &= np.abs(x - brk) < width
+            x = keep - (m_keep + aim) * (brk - keep) / (m_brk - m_keep)
+            if x_last is not None:
+                newton = x_last - (m_last + aim) / d_last
+                x = np.where(np.abs(newton - keep) + np.abs(newton - brk) < width * (1.0 + 1e-12), newton, x)
+        inside = (np.abs(x - keep) < width) & (np.abs(x - brk) < width)
         x = np.where(inside & (width <= 0.5 * w2), x, 0.5 * (keep + brk))
         x = np.where(live, x, keep)                                  # finished: marks time
-        m = _values(setup, pieces, prob, x, slopes=False)[2]
+        _, dm, m = _values(setup, pieces, prob, x, slopes="margin")
         kept = (m <= -_MARGIN_ROUNDING) | ~live                      # inside, whatever the rounding
-        m_brk = np.where(kept & (side == 1), 0.5 * m_brk, m_brk)
-        m_keep = np.where(~kept & (side == -1), 0.5 * m_keep, m_keep)
         keep, m_keep = np.where(kept, x, keep), np.where(kept, m, m_keep)
         brk, m_brk = np.where(kept, brk, x), np.where(kept, m_brk, m)
-        side = np.where(kept, 1, -1).astype(np.int8)
+        x_last, m_last, d_last = x, m, dm
         w2, w1 = w1, width
     out[idx] = keep
     return out
@@ -1284,14 +1356,19 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
     usable = (ok[:-1] | ok[1:]) & (top > 0.0)
     h = top / (k - 1)
     bend, kink = _bend_weight(pieces, prob, h)                       # (strips, N)
+    kinks, jumps = _skin_friction_kinks(setup)
+    power_kink = HERMITE_KINK_ERROR[0] * h * abs(prob.power_weight) * jumps.sum()
     # first a cap: every strip crosses each table point that any strip crosses in the cell
     first, last = pieces.knots_inside(x[:-1] * prob.u.min(axis=0), x[1:] * prob.u.max(axis=0))
-    cap = BUMP_BOUND_FACTOR * (np.maximum(last - first + 1, 0) * bend.sum(axis=0) + kink.sum(axis=0))
+    cap = BUMP_BOUND_FACTOR * (np.maximum(last - first + 1, 0) * bend.sum(axis=0) + kink.sum(axis=0) + power_kink)
     rows, cond = np.nonzero(usable & (high + cap > best_f))
-    bound = BUMP_BOUND_FACTOR * _bend_bound(pieces, prob.u[:, cond], bend[:, cond], kink[:, cond],
-                                            x[rows, cond], x[rows + 1, cond])
+    xa, xb = x[rows, cond], x[rows + 1, cond]
+    bound = _bend_bound(pieces, prob.u[:, cond], bend[:, cond], kink[:, cond], xa, xb)
+    for at, jump in zip(kinks, jumps):                               # the friction model's kinks
+        bound = bound + ((xa < at) & (at < xb)) * HERMITE_KINK_ERROR[0] * (xb - xa) * abs(prob.power_weight) * jump
+    bound *= BUMP_BOUND_FACTOR
     keep = high[rows, cond] + bound > best_f[cond]
-    rows, cond = rows[keep], cond[keep]
+    rows, cond, slack = rows[keep], cond[keep], bound[keep]
     a, b = x[rows, cond], x[rows + 1, cond]
     fa, fb, da, db = f[rows, cond], f[rows + 1, cond], d[rows, cond], d[rows + 1, cond]
     ma, mb = margin[rows, cond], margin[rows + 1, cond]
@@ -1307,6 +1384,7 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         cand.append((np.concatenate([wc, wc]), np.concatenate([wa, wb]),
                      np.where(mw.ravel() <= 0.0, fw.ravel(), -np.inf)))
         cond, a, b = np.concatenate([cond, wc]), np.concatenate([a, wa]), np.concatenate([b, wb])
+        slack = np.concatenate([slack, np.full(wc.size, np.inf)])    # no bound worked out there
         fa, fb = np.concatenate([fa, fw[0]]), np.concatenate([fb, fw[1]])
         da, db = np.concatenate([da, dw[0]]), np.concatenate([db, dw[1]])
         ma, mb = np.concatenate([ma, mw[0]]), np.concatenate([mb, mw[1]])
@@ -1335,18 +1413,21 @@ def _best_omega(setup: RotorSetup, w: _Wind, pieces: _Pieces, progress=None) -> 
         #    point of the coefficient table (its curvature jumps there and small bumps start);
         #    between these points it is smooth and the cubic through neighbours models it
         #    closely. Cells with as many such points are evaluated together.
-        pts, count = _breakpoints(pieces, pe.u, a, b)
+        pts, count = _breakpoints(pieces, pe.u, a, b, kinks)
+        pts, count = _where_it_may_beat(pts, a, b, fa, fb, da, db, slack, best_f[cond])
         order = np.argsort(count, kind="stable")
         counts = count[order]
         ps = pe.take(order)
-        starts = np.searchsorted(counts, np.arange(counts[-1] + 2))
+        # groups of entries with about as many points (the few missing ones repeat the cell's end)
+        sizes = np.unique(np.concatenate([[0], np.minimum(2 * ((counts + 1) // 2), counts[-1])]))
+        starts = np.searchsorted(counts, np.append(sizes[:-1] + 1, counts[-1] + 1), side="left")
+        starts = np.concatenate([[0], starts])
         found = []                                                   # best sub-interval per entry
-        for c in range(counts[-1] + 1):
-            lo, hi = starts[c], starts[c + 1]
+        for c, lo, hi in zip(sizes, starts[:-1], starts[1:]):
             if hi == lo:
                 continue
             sel = order[lo:hi]
-            xs = np.vstack([a[sel], pts[:c, sel], b[sel]])
+            xs = np.vstack([a[sel], np.where(np.isnan(pts[:c, sel]), b[sel], pts[:c, sel]), b[sel]])
             fs, ds, ms = np.vstack([fa[sel], fb[sel]]), np.vstack([da[sel], db[sel]]), np.vstack([ma[sel], mb[sel]])
             if c:
                 fz, dz, mz = _values(setup, pieces, ps.take(slice(lo, hi)), xs[1:-1])
