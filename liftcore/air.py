@@ -222,22 +222,40 @@ def air_state(altitude_m: float | None = None, temperature_k: float | None = Non
                     speed_of_sound_m_s=float(speed_of_sound(t)), warnings=warnings)
 
 
-def air_inputs(prefix_section: str = "Air"):
-    """The air-state inputs shared by every study that needs air (ISA altitude or measured)."""
+def air_inputs(prefix_section: str = "Air", when=None):
+    """The air-state inputs shared by every study that needs air (ISA altitude or measured).
+
+    Each carries its ``show_if`` rule: the altitude for the standard atmosphere, temperature and
+    pressure for measured air. With ``when(values)`` (e.g. "the fluid is air"), every air input
+    matters only when it holds as well.
+    """
     from liftcore.inputs import choice, number
 
+    def rule(own=None):
+        if when is None:
+            return own
+        if own is None:
+            return lambda v: bool(when(v))
+        return lambda v: bool(when(v)) and own(v)
+
+    isa = lambda v: v["air_mode"] == "isa"  # noqa: E731
+    measured = lambda v: v["air_mode"] == "measured"  # noqa: E731
     return (
         choice("air_mode", "Air state from", ("isa", "measured"), default="isa",
                labels=("Standard atmosphere at an altitude", "Measured temperature, pressure, humidity"),
-               section=prefix_section, help="ISA: ISO 2533 standard day at the altitude."),
+               section=prefix_section, help="ISA: ISO 2533 standard day at the altitude.",
+               show_if=rule()),
         number("altitude_m", "Altitude", "altitude", 0.0, -500.0, 11000.0, section=prefix_section,
-               help="Height above mean sea level of the site (ISA)."),
+               help="Height above mean sea level of the site (ISA).", show_if=rule(isa)),
         number("temperature_k", "Air temperature", "temperature", 288.15, 233.15, 323.15,
-               section=prefix_section, help="Used when the air state is measured."),
+               section=prefix_section, help="Used when the air state is measured.",
+               show_if=rule(measured)),
         number("pressure_pa", "Barometric pressure", "pressure", 101325.0, 50000.0, 110000.0,
-               section=prefix_section, help="Station pressure (not reduced to sea level)."),
+               section=prefix_section, help="Station pressure (not reduced to sea level).",
+               show_if=rule(measured)),
         number("relative_humidity_pct", "Relative humidity", "percent", 0.0, 0.0, 100.0,
-               section=prefix_section, help="0 to 100 %. Humid air is slightly lighter."),
+               section=prefix_section, help="0 to 100 %. Humid air is slightly lighter.",
+               show_if=rule()),
     )
 
 

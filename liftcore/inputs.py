@@ -8,8 +8,8 @@ ordered set of fields of one study kind, grouped into sections for the page.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field as dc_field
-from typing import Any, Iterable
+from dataclasses import dataclass, field as dc_field, replace
+from typing import Any, Callable, Iterable
 
 from liftcore import units
 from liftcore.errors import InputError, check_choice, check_number
@@ -42,6 +42,14 @@ class Field:
         One sentence shown as the widget's tooltip.
     step : float or None
         Widget step in display units (``None`` lets the widget choose).
+    advanced : bool
+        Shown in a collapsed section on the page.
+    show_if : callable or None
+        ``show_if(values) -> bool`` on the complete core-unit values: whether the input matters
+        (and is shown) for these values, e.g. the spin rate only when the spin is given as a rate.
+        A hidden input keeps its value. ``None``: always shown.
+    lines : int
+        Text inputs only: lines of the text box (1 = one-line input).
     """
 
     key: str
@@ -59,6 +67,12 @@ class Field:
     help: str = ""
     step: float | None = None
     advanced: bool = False
+    show_if: Callable[[dict], bool] | None = dc_field(default=None, compare=False, repr=False)
+    lines: int = 1
+
+    def shown_for(self, values: dict) -> bool:
+        """Whether this input matters for ``values`` (see ``show_if``)."""
+        return self.show_if is None or bool(self.show_if(values))
 
     def unit(self, system: str = "SI") -> str:
         if self.kind not in ("number", "int") or self.quantity in ("ratio", "money"):
@@ -162,6 +176,14 @@ class InputSpec:
             else:
                 raise InputError(f.key, f"{f.label} is missing (key {f.key!r})")
         return out
+
+    def with_rules(self, rules: dict) -> "InputSpec":
+        """A copy whose fields named in ``rules`` (key -> ``show_if`` predicate) get that rule."""
+        unknown = set(rules) - set(self.keys)
+        if unknown:
+            raise KeyError(f"{self.kind} has no input {sorted(unknown)[0]!r}")
+        return replace(self, fields=tuple(replace(f, show_if=rules[f.key]) if f.key in rules else f
+                                          for f in self.fields))
 
     def diff(self, a: dict, b: dict) -> list[str]:
         """Keys whose values differ between two complete input dicts."""

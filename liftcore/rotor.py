@@ -169,7 +169,7 @@ ROTOR_FIELDS: tuple[Field, ...] = (
            section="Coefficient set",
            help="Lift, drag and power coefficients against spin ratio; every set's source is "
                 "listed on the page."),
-    text("user_coefficients_csv", "Your coefficient table (CSV text)", "", section="Coefficient set",
+    text("user_coefficients_csv", "Your coefficient table (CSV text)", "", section="Coefficient set", lines=7,
          help="Columns SR, CL, CD and optionally CP; at least 3 rows with SR increasing."),
     number("user_aspect_ratio", "Aspect ratio of your tested rotor (0 = two-dimensional)", "ratio",
            0.0, 0.0, 50.0, section="Coefficient set",
@@ -207,6 +207,17 @@ ROTOR_FIELDS: tuple[Field, ...] = (
             advanced=True, help="The rotor is cut into this many strips of equal height, each "
                                 "with its own apparent wind and spin ratio (midpoint rule)."),
 )
+
+#: Which of :data:`ROTOR_FIELDS` matter for given values (``InputSpec.with_rules``).
+ROTOR_SHOW_IF = {
+    "power_law_exponent": lambda v: v["wind_profile"] == "power",
+    "charnock_constant": lambda v: v["wind_profile"] == "log",
+    "rotor_spacing_m": lambda v: v["rotor_count"] > 1,
+    "interaction_factor": lambda v: v["rotor_count"] > 1,
+    "user_coefficients_csv": lambda v: v["coefficient_set"] == "user",
+    "user_aspect_ratio": lambda v: v["coefficient_set"] == "user",
+    "user_end_plate_ratio": lambda v: v["coefficient_set"] == "user",
+}
 
 
 # ============================================================================ setup

@@ -25,15 +25,15 @@ def demo_page():
     import streamlit as st
 
     from liftcore.studies import study
-    from views import common
+    from views import inputs, results, tools
 
-    common.sidebar_chrome()
+    inputs.sidebar_chrome()
     mod = study("demo")
     st.title(mod.TITLE)
-    values = common.render_inputs(mod.INPUTS)
-    common.page_tools(mod.INPUTS)
-    result = common.run_cached("demo", values)
-    common.show_headlines(result)
+    values = inputs.render_inputs(mod.INPUTS)
+    tools.page_tools(mod.INPUTS)
+    result = results.run_cached("demo", values)
+    results.show_headlines(result)
 
 
 @pytest.fixture(autouse=True)
@@ -92,7 +92,7 @@ def check_metrics(at, kind, values, system, independent=False):
     The result comes from the shared cache (the page's own run) unless ``independent``: then the
     study runs again here.
     """
-    from views.common import cached_result
+    from views.results import cached_result
 
     result = run_study(kind, values) if independent else cached_result(kind, values)
     heads = {h.label: h.text(system) for h in result.headlines}
@@ -120,15 +120,17 @@ def test_unit_switch_keeps_values_exactly_and_converts_headlines():
         assert state_values(at, "demo", demo_study.INPUTS) == exact  # bit for bit: no drift
         assert metrics(at) == shown("demo", values, system)
     at.segmented_control(key="unit_system").set_value("imperial").run()
-    # 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959)
-    # shown to 5 significant digits (the value used stays exact)
-    assert at.number_input(key="w:demo:diameter_m:imperial").value == pytest.approx(3.0 / 0.3048, rel=1e-5)
+    # 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959): 3 m = 9.8425 ft,
+    # shown as a person would type it, 9.84 ft (within 0.1 %); the value used stays exact
+    assert at.number_input(key="w:demo:diameter_m:imperial").value == 9.84
+    assert at.session_state["demo:diameter_m"] == 3.0
     at.number_input(key="w:demo:diameter_m:imperial").set_value(10.0).run()
     assert at.session_state["demo:diameter_m"] == pytest.approx(3.048, rel=1e-12)
     # degF = degC * 9/5 + 32: 20 degC is 68 degF
     assert at.number_input(key="w:demo:temperature_k:imperial").value == pytest.approx(68.0)
     at.segmented_control(key="unit_system").set_value("SI").run()
-    assert at.number_input(key="w:demo:diameter_m:SI").value == pytest.approx(3.048)
+    assert at.number_input(key="w:demo:diameter_m:SI").value == 3.05  # 3.048 m within 0.1 %
+    assert at.session_state["demo:diameter_m"] == pytest.approx(3.048, rel=1e-12)
 
 
 # ----------------------------------------------------------------------------- scenario files
@@ -178,7 +180,7 @@ def test_scenario_file_round_trip_reproduces_the_page(downloads):
     (b'schema_version = 2\nkind = "demo"\n[inputs]\ndiameter_m = 500.0', "must be between 0.1 and 20 m (got 500 m)"),
     (b'schema_version = 2\nkind = "demo"\n[inputs]\nsize = 1.0', "unknown key 'size'"),
     (b'schema_version = 2\nkind = "demo2"\n', "junk.toml is a demo2 scenario; load it on the"),
-    (b"#" * (sc.MAX_SCENARIO_BYTES + 10), "scenario files must be at most 1000000 bytes"),
+    (b"#" * (sc.MAX_SCENARIO_BYTES + 10), "scenario files must be at most 1,000,000 bytes"),
 ])
 def test_bad_upload_shows_an_error_and_keeps_what_was_typed(content, message):
     at = app()
@@ -273,23 +275,28 @@ def test_report_and_csv_downloads_match_the_page(downloads):
 
 
 # ----------------------------------------------------------------------------- options
+def name_box(at):
+    """The "Option name" box of the Keep popover (a new box, with a new key, after each keep)."""
+    return next(t for t in at.text_input if t.label == "Option name")
+
+
 def test_keep_options_up_to_four_and_replace_by_name():
     at = app()
     at.run()
     for i, d in enumerate((2.0, 3.0, 4.0, 5.0)):
         at.number_input(key="w:demo:diameter_m:SI").set_value(d).run()
-        at.text_input(key="_lc:option_name:demo").set_value(f"D{d:g}").run()
+        name_box(at).set_value(f"D{d:g}").run()
         at.button(key="_lc:keep:demo").click().run()
         assert f"as option {i + 1} of 4" in messages(at)
-    at.text_input(key="_lc:option_name:demo").set_value("one more").run()
+    name_box(at).set_value("one more").run()
     at.button(key="_lc:keep:demo").click().run()
     assert "4 options are kept already; remove one on the Compare options page first" in messages(at)
     at.number_input(key="w:demo:diameter_m:SI").set_value(6.0).run()
-    at.text_input(key="_lc:option_name:demo").set_value("D2").run()
+    name_box(at).set_value("D2").run()
     at.button(key="_lc:keep:demo").click().run()
     opts = at.session_state["_lc:options"]
     assert [(o["name"], o["inputs"]["diameter_m"]) for o in opts] == [("D2", 6.0), ("D3", 3.0), ("D4", 4.0), ("D5", 5.0)]
-    at.text_input(key="_lc:option_name:demo").set_value("   ").run()
+    name_box(at).set_value("   ").run()
     at.button(key="_lc:keep:demo").click().run()
     assert "option name must not be empty" in messages(at)
 
@@ -382,7 +389,7 @@ def visible_changes(at, kind: str, most: int = 1) -> list:
     """Up to ``most`` number inputs visible on the page, each moved to another value the study
     accepts (tried through the shared cache, so the page's next run finds it computed)."""
     from liftcore.errors import InputError
-    from views.common import cached_result
+    from views.results import cached_result
 
     spec = study(kind).INPUTS
     values = state_values(at, kind, spec)
@@ -528,8 +535,8 @@ def test_an_option_opens_on_its_page():
     ("", ""),
 ])
 def test_share_link_root_drops_the_current_page(url, root):
-    from views import PAGES, common
-    assert common._app_root(url, {u for _, _, u, _ in PAGES}) == root
+    from views import PAGES, tools
+    assert tools.app_root(url, {u for _, _, u, _ in PAGES}) == root
 
 
 # ----------------------------------------------------------------------------- shared widget rules
@@ -548,23 +555,24 @@ def test_air_inputs_follow_the_air_mode_on_every_page(page_file, kind):
 
 
 def test_air_rules_with_a_precondition():
-    from views.common import AIR_SHOW_IF, air_show_if
+    from liftcore.air import air_inputs
 
     isa = {"air_mode": "isa", "fluid": "air"}
     measured = {"air_mode": "measured", "fluid": "air"}
-    assert AIR_SHOW_IF["altitude_m"](isa) and not AIR_SHOW_IF["altitude_m"](measured)
-    assert AIR_SHOW_IF["pressure_pa"](measured) and not AIR_SHOW_IF["temperature_k"](isa)
-    rules = air_show_if(when=lambda v: v["fluid"] == "air")
-    assert rules["temperature_k"](measured) and rules["air_mode"](isa)
+    plain = {f.key: f for f in air_inputs()}
+    assert plain["altitude_m"].shown_for(isa) and not plain["altitude_m"].shown_for(measured)
+    assert plain["pressure_pa"].shown_for(measured) and not plain["temperature_k"].shown_for(isa)
+    assert plain["air_mode"].shown_for(measured) and plain["relative_humidity_pct"].shown_for(isa)
+    rules = {f.key: f for f in air_inputs(when=lambda v: v["fluid"] == "air")}
+    assert rules["temperature_k"].shown_for(measured) and rules["air_mode"].shown_for(isa)
     water = {"air_mode": "measured", "fluid": "water"}
-    assert not any(rules[k](water) for k in ("air_mode", "altitude_m", "temperature_k", "pressure_pa",
-                                             "relative_humidity_pct"))
-    assert air_show_if().keys() == AIR_SHOW_IF.keys()
+    assert not any(rules[k].shown_for(water) for k in rules)
+    assert rules.keys() == plain.keys()
 
 
 def test_number_steps_follow_the_default_in_the_display_unit():
     from liftcore.inputs import number
-    from views.common import _auto_step
+    from views.inputs import _auto_step
 
     pressure = number("pressure_pa", "Pressure", "pressure", 101325.0)
     # a step of about a hundredth of the default, as a power of ten: 1013.25 hPa -> 10 hPa,

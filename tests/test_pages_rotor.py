@@ -97,19 +97,19 @@ def test_user_coefficient_table_on_the_page(page):
     assert not page.exception
     assert any("CSV" in e.value or "empty" in e.value for e in page.error)  # asks for a table
     table = "SR,CL,CD\n0,0,0.7\n1,2.2,0.5\n2,5.0,1.3\n3,7.5,2.4\n"
-    page.text_area(key=key("user_coefficients_csv", "all")).set_value(table)
+    page.text_area(key=key("user_coefficients_csv")).set_value(table)
     page.run()
     assert not page.exception and not page.error
     op = core_op({"coefficient_set": "user", "user_coefficients_csv": table})
     assert metric(page, "Net power gain") == f"{format_number(op.net_power_w / 1000)} kW"
     # a broken table gives one clear line and keeps what was typed
     broken = "SR,CL,CD\n0,0,0.7\n2,2.2,0.5\n1,5.0,1.3\n"
-    page.text_area(key=key("user_coefficients_csv", "all")).set_value(broken)
+    page.text_area(key=key("user_coefficients_csv")).set_value(broken)
     page.run()
     assert not page.exception
     assert page.error[0].value == ("your coefficient table: SR must increase from row to row "
                                    "(data row 3: 1 after 2)")
-    assert page.text_area(key=key("user_coefficients_csv", "all")).value == broken
+    assert page.text_area(key=key("user_coefficients_csv")).value == broken
 
 
 def test_compass_directions_give_the_same_answer_as_the_relative_angle(page):

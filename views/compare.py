@@ -17,7 +17,7 @@ from liftcore.report import (Run, comparison_csv, comparison_report, difference_
                              headline_diff_rows, input_diff_rows, overlay_figure, _key_figure)
 from liftcore.scenario import MAX_OPTIONS, Comparison, Option, comparison_to_toml
 from liftcore.studies import STUDY_MODULES, study
-from views import common
+from views import inputs, results, tools
 
 DEMO = Path(__file__).resolve().parents[1] / "scenarios" / "compare_demo_invented.toml"
 CSS = """
@@ -33,7 +33,7 @@ table.lc-compare tr.differs td { background: #fff3c4; font-weight: 700; }
 
 st.title("Compare options")
 st.markdown(CSS, unsafe_allow_html=True)
-system = common.unit_system()
+system = inputs.unit_system()
 
 
 # ----------------------------------------------------------------------------- loading
@@ -43,25 +43,25 @@ def _load_demo() -> None:
     try:
         doc = load_document(DEMO)
     except (InputError, OSError) as exc:
-        common.flash("compare", "error", f"The demo comparison could not be loaded: {exc}")
+        tools.flash("compare", "error", f"The demo comparison could not be loaded: {exc}")
         return
-    common._load_comparison(doc)
-    common.flash("compare", "success", f"Loaded the invented demo comparison ({len(doc.options)} options).")
+    tools.load_comparison(doc)
+    tools.flash("compare", "success", f"Loaded the invented demo comparison ({len(doc.options)} options).")
 
 
 def _clear() -> None:
-    st.session_state[common.OPTIONS_KEY] = []
-    common.flash("compare", "success", "All kept options removed.")
+    st.session_state[tools.OPTIONS_KEY] = []
+    tools.flash("compare", "success", "All kept options removed.")
 
 
 def _open_option(index: int) -> None:
-    o = common.kept_options()[index]
-    common.request_load(o["kind"], o["inputs"], title=o["name"], note=o.get("note", ""),
+    o = tools.kept_options()[index]
+    tools.request_load(o["kind"], o["inputs"], title=o["name"], note=o.get("note", ""),
                         message=f"Opened option “{o['name']}” from the Compare options page.")
-    st.session_state[common._k("switch_to")] = o["kind"]
+    st.session_state[tools.key("switch_to")] = o["kind"]
 
 
-target = st.session_state.pop(common._k("switch_to"), None)
+target = st.session_state.pop(tools.key("switch_to"), None)
 if target:
     st.switch_page(f"views/{target}.py")
 
@@ -78,33 +78,33 @@ def _option_name(title: str) -> str:
 
 with st.sidebar:
     st.markdown("**Options**")
-    up = common._upload_box(st, "compare", "Load a comparison or scenario file (.toml)",
+    up = tools.upload_box(st, "compare", "Load a comparison or scenario file (.toml)",
                             "A comparison file replaces the kept options; a single scenario is added "
                             "as one more option.")
     if up is not None:
-        doc = common.read_upload(up, None)
+        doc = tools.read_upload(up, None)
         if isinstance(doc, Comparison):
-            common._load_comparison(doc)
-            common.flash("compare", "success", f"Loaded {up.name}: {len(doc.options)} options.")
+            tools.load_comparison(doc)
+            tools.flash("compare", "success", f"Loaded {up.name}: {len(doc.options)} options.")
         elif doc is not None:
             try:
-                msg = common.keep_option(doc.kind, _option_name(doc.title or Path(up.name).stem),
+                msg = tools.keep_option(doc.kind, _option_name(doc.title or Path(up.name).stem),
                                          doc.inputs, doc.note or doc.title)
-                common.flash("compare", "success", f"{up.name}: {msg}")
+                tools.flash("compare", "success", f"{up.name}: {msg}")
             except InputError as exc:
-                common.flash("compare", "error", f"{up.name}: {exc}")
-        common._reset_upload("compare")
+                tools.flash("compare", "error", f"{up.name}: {exc}")
+        tools.reset_upload("compare")
         st.rerun()
     st.button("Load the invented demo comparison", on_click=_load_demo, icon=":material/science:",
               width="stretch", disabled=not DEMO.exists(), key="_lc:cmp_demo")
     st.button("Remove all options", on_click=_clear, icon=":material/delete_sweep:", width="stretch",
-              disabled=not common.kept_options())
+              disabled=not tools.kept_options())
 
 with top:
-    for level, msg in st.session_state.pop(common._k("flash", "compare"), []):
+    for level, msg in st.session_state.pop(tools.key("flash", "compare"), []):
         (st.error if level == "error" else st.success)(msg)
 
-options = [o for o in common.kept_options() if o["kind"] in STUDY_MODULES]
+options = [o for o in tools.kept_options() if o["kind"] in STUDY_MODULES]
 if not options:
     st.info("No options kept yet. On any study page, set the inputs, then use **Keep as option** "
             "at the top of the sidebar (up to four). Or load a comparison file, or the invented demo "
@@ -114,21 +114,21 @@ if not options:
 # ----------------------------------------------------------------------------- results
 runs: list[Run] = []
 for o in options:
-    result = common.run_cached(o["kind"], o["inputs"], extra=o.get("extra"), label=f"Computing {o['name']}",
+    result = results.run_cached(o["kind"], o["inputs"], extra=o.get("extra"), label=f"Computing {o['name']}",
                               check_inputs=False)
     runs.append(Run(o["name"], o["kind"], o["inputs"], result, o.get("note", "")))
 
-cmp_title = st.session_state.get(common._k("cmp_title")) or "Options compared"
-cmp_note = st.session_state.get(common._k("cmp_note")) or ""
+cmp_title = st.session_state.get(tools.key("cmp_title")) or "Options compared"
+cmp_note = st.session_state.get(tools.key("cmp_note")) or ""
 st.caption(f"{len(runs)} of {MAX_OPTIONS} options · differences are to the first option of each group · "
-           f"{common.UNIT_LABELS[system]}")
+           f"{inputs.UNIT_LABELS[system]}")
 
 
 def _report() -> str:
     try:
         return comparison_report(runs, cmp_title, cmp_note, system)
     except Exception as exc:  # a download must never fail silently
-        return common._error_page(f"{type(exc).__name__}: {exc}")
+        return tools.error_page(f"{type(exc).__name__}: {exc}")
 
 
 def _csv() -> str:
@@ -139,12 +139,12 @@ def _csv() -> str:
 
 
 d1, d2, _ = st.columns([1, 1, 2])
-d1.download_button("Comparison report", data=_report, file_name=f"{common.file_stem(cmp_title)}.html",
+d1.download_button("Comparison report", data=_report, file_name=f"{tools.file_stem(cmp_title)}.html",
                    mime="text/html", icon=":material/description:", on_click="ignore", width="stretch",
                    key="_lc:cmp_report",
                    help="A handout (HTML, opens offline, prints to PDF): every group's differences, "
                         "key chart, warnings, sources and cautions")
-d2.download_button("Numbers (.csv)", data=_csv, file_name=f"{common.file_stem(cmp_title)}.csv",
+d2.download_button("Numbers (.csv)", data=_csv, file_name=f"{tools.file_stem(cmp_title)}.csv",
                    mime="text/csv", icon=":material/table:", on_click="ignore", width="stretch",
                    key="_lc:cmp_csv")
 
@@ -159,7 +159,7 @@ def _table(head: list[str], rows: list[tuple[list[str], bool]]) -> str:
     return f"<table class='lc-compare'><thead><tr>{ths}</tr></thead><tbody>{''.join(trs)}</tbody></table>"
 
 
-index_of = {id(o): i for i, o in enumerate(common.kept_options())}
+index_of = {id(o): i for i, o in enumerate(tools.kept_options())}
 for gi, (kind, group) in enumerate(group_by_kind(runs)):
     mod = study(kind)
     group_opts = [o for o in options if o["kind"] == kind]
@@ -172,7 +172,7 @@ for gi, (kind, group) in enumerate(group_by_kind(runs)):
             b1.button("Open", key=f"_lc:open:{index_of[id(o)]}", on_click=_open_option,
                       args=(index_of[id(o)],), icon=":material/open_in_new:",
                       help="Open these inputs on the study's page")
-            b2.button("Remove", key=f"_lc:remove:{index_of[id(o)]}", on_click=common.remove_option,
+            b2.button("Remove", key=f"_lc:remove:{index_of[id(o)]}", on_click=tools.remove_option,
                       args=(index_of[id(o)],), icon=":material/close:")
     # one row per result, options side by side, so the same number lines up across the room
     first = group[0].result
@@ -219,7 +219,7 @@ for gi, (kind, group) in enumerate(group_by_kind(runs)):
                              r["differs"]) for r in hrows]), unsafe_allow_html=True)
     ov = overlay_figure(group, system)
     if ov is not None:
-        common.show_figure(ov[1], key=f"_lc:overlay:{gi}")
+        results.show_figure(ov[1], key=f"_lc:overlay:{gi}")
     else:
         figs = [(r.name, _key_figure(kind, r.result, system)) for r in group]
         figs = [(n, f) for n, f in figs if f is not None]
@@ -228,14 +228,14 @@ for gi, (kind, group) in enumerate(group_by_kind(runs)):
             for fc, (n, (t, fig)) in zip(fcols, figs):
                 with fc:
                     st.markdown(f"**{html.escape(n)}**: {html.escape(t)}")
-                    common.show_figure(fig, key=f"_lc:kf:{gi}:{n}")
+                    results.show_figure(fig, key=f"_lc:kf:{gi}:{n}")
     with st.expander(f"All inputs ({len(irows)})"):
         st.markdown(_table(["Input"] + names, [([r["label"] + (f" [{r['unit']}]" if r["unit"] else "")] + r["texts"],
                                                 r["differs"]) for r in irows]), unsafe_allow_html=True)
     comp = Comparison(kind=kind, options=tuple(Option(r.name, r.inputs, r.note) for r in group),
                       title=cmp_title, note=cmp_note, unit_system=system)
     st.download_button(f"Save these {len(group)} options as a comparison file (.toml)",
-                       data=comparison_to_toml(comp), file_name=f"{common.file_stem(cmp_title)}-{kind}.toml",
+                       data=comparison_to_toml(comp), file_name=f"{tools.file_stem(cmp_title)}-{kind}.toml",
                        mime="application/toml", icon=":material/download:", on_click="ignore",
                        key=f"_lc:cmp_save:{kind}")
-    common.show_sources_and_cautions(mod)
+    results.show_sources_and_cautions(mod)

@@ -7,7 +7,7 @@ import streamlit as st
 from liftcore import fieldcirc
 from liftcore.errors import InputError
 from liftcore.studies import study as study_module
-from views import common
+from views import inputs, results, tools
 
 study = study_module("field")
 
@@ -37,47 +37,45 @@ st.caption(
 upload = st.file_uploader("Velocity field (CSV with columns x, y, u, v)", type=["csv", "txt"],
                           key="field_upload", help="See 'File format' below.")
 
-with st.sidebar:
-    values = common.render_inputs(study.INPUTS, show_if={
-        "rectangle_aspect": lambda v: v["loop_shape"] == "rectangle",
-        "free_stream_m_s": lambda v: v["free_stream_mode"] == "given",
-        "density_kg_m3": lambda v: v["density_mode"] == "given",
-        **common.air_show_if(when=lambda v: v["density_mode"] == "air"),
-    })
+values = inputs.render_inputs(study.INPUTS)
 
-extra = None
+extra, problem = None, None
 try:
     if upload is not None:
         extra = _read_upload(upload.getvalue(), upload.name)
         shown_name = re.sub(r"([\\`*_{}\[\]()#+\-.!<>|~$])", r"\\\1", upload.name)
-        st.caption(f"Field from your file {shown_name} ({len(extra)} rows).")
+        st.caption(f"Field from your file {shown_name} ({len(extra):,} rows).")
     else:
         st.info(study.DEMO_NOTE, icon=":material/science:")
-    result = common.run_cached(study.KIND, values, extra=extra, label="Integrating round the loops")
 except InputError as exc:
-    st.error(f"{exc}", icon=":material/error:")
+    problem = str(exc)
+if problem is None:
+    result, problem = results.run_for_page(study.KIND, values, extra=extra,
+                                           label="Integrating round the loops")
+tools.page_tools(study, extra=extra, problem=problem)
+if problem:
+    st.error(problem, icon=":material/error:")
     st.caption("Your inputs are kept: change them in the sidebar, or upload a corrected file.")
     with st.expander("File format", expanded=True):
         st.markdown(FORMAT_HELP)
     st.stop()
-common.page_tools(study, extra=extra)
 
-common.show_headlines(result)
-common.show_warnings(common.general_warnings(result))
+results.show_headlines(result)
+results.show_warnings(results.general_warnings(result))
 
-figs = common.study_figures(study, result)
+figs = results.study_figures(study, result)
 left, right = st.columns([1.1, 1])
 with left:
-    common.show_figure(figs["Velocity field and loops"], key="field_map")
+    results.show_figure(figs["Velocity field and loops"], key="field_map")
 with right:
-    common.show_figure(figs["Circulation against loop size"], key="field_circulation")
+    results.show_figure(figs["Circulation against loop size"], key="field_circulation")
     st.caption(
         "Filled markers: the outer half of the loops, which count toward the estimate. The band "
         "is their loop-to-loop spread (half their range)."
     )
 
 with st.expander("Circulation of each loop"):
-    loops = common.study_tables(study, result)["loops"]
+    loops = results.study_tables(study, result)["loops"]
     st.dataframe(loops, hide_index=True, width="stretch")
     st.download_button("Download as CSV", loops.to_csv(index=False),
                        file_name="circulation_per_loop.csv", mime="text/csv")
@@ -87,4 +85,4 @@ with st.expander("File format"):
                        fieldcirc.DEMO_FIELD_PATH.read_bytes(), file_name=fieldcirc.DEMO_FIELD_PATH.name,
                        mime="text/csv")
 
-common.show_sources_and_cautions(study)
+results.show_sources_and_cautions(study)

@@ -5,9 +5,6 @@ Thin: widgets -> liftcore (studies.flight, ballflight) through cached wrappers -
 
 from __future__ import annotations
 
-import threading
-from collections import OrderedDict
-
 import numpy as np
 import pandas as pd
 import streamlit as st
@@ -20,10 +17,11 @@ from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, integer, number
 from liftcore.studies import flight as study
 from liftcore.studies import format_number
-from views.common import (AIR_SHOW_IF, general_warnings, input_widget, number_text, page_tools,
-                          render_inputs, run_cached, show_figure, show_headlines,
-                          show_sources_and_cautions, show_warnings, state_key, study_figures,
-                          study_tables, table_in_units, unit_system)
+from views.inputs import input_widget, render_inputs, state_key, unit_system
+from views.results import (cached, general_warnings, number_text, run_for_page, show_figure, stop_for,
+                           show_headlines, show_sources_and_cautions, show_warnings, study_figures,
+                           study_tables, table_in_units)
+from views.tools import page_tools
 
 KIND = study.KIND
 SPEC = study.INPUTS
@@ -74,36 +72,13 @@ def _best(values: dict, keys, bounds, output, maximise):
     return bf.best_launch(setup, study.launch_from_values(values), keys, bounds, output, maximise)
 
 
-_SPREAD_CACHE: "OrderedDict[str, bf.DispersionResult]" = OrderedDict()
-_SPREAD_LOCK = threading.Lock()
-
-
 def _spread(values: dict):
-    """Landing spread through a small result cache, with a progress bar while it flies.
-
-    (Not st.cache_data: that would replay the progress bar on a cache hit.)
-    """
-    key = repr(sorted(values.items()))
-    with _SPREAD_LOCK:
-        if key in _SPREAD_CACHE:
-            _SPREAD_CACHE.move_to_end(key)
-            return _SPREAD_CACHE[key]
-    bar = st.progress(0.0, text="Flying…")
-
-    def progress(frac, text=""):
-        bar.progress(min(max(float(frac), 0.0), 1.0), text=text or "Flying…")
-
-    try:
+    """Landing spread through the shared result cache, with a progress bar while it flies."""
+    def fly(progress):
         setup, _ = study.setup_from_values(values)
-        res = bf.dispersion(setup, study.launch_from_values(values), study.spread_sd(values),
-                            values["dispersion_n"], values["dispersion_seed"], progress=progress)
-    finally:
-        bar.empty()
-    with _SPREAD_LOCK:
-        _SPREAD_CACHE[key] = res
-        while len(_SPREAD_CACHE) > 16:
-            _SPREAD_CACHE.popitem(last=False)
-    return res
+        return bf.dispersion(setup, study.launch_from_values(values), study.spread_sd(values),
+                             values["dispersion_n"], values["dispersion_seed"], progress=progress)
+    return cached(("flight spread", values), fly, label="Flying")
 
 
 @st.cache_data(show_spinner=False, max_entries=16)
@@ -140,30 +115,11 @@ def _overlay_extra(overlaid: list):
 
 
 # ----------------------------------------------------------------------------- sidebar
-def _show_if():
-    return {
-        "custom_diameter_m": lambda v: v["ball"] == "custom",
-        "custom_mass_kg": lambda v: v["ball"] == "custom",
-        "constant_cd": lambda v: v["coefficient_model"] == "constant",
-        "constant_cl": lambda v: v["coefficient_model"] == "constant",
-        **AIR_SHOW_IF,
-        "density_kg_m3": lambda v: bool(v["set_density"]),
-        "wind_ref_height_m": lambda v: v["wind_profile"] == "power_law",
-        "wind_exponent": lambda v: v["wind_profile"] == "power_law",
-        "compare_altitude_m": lambda v: v["compare_with"] == "altitude",
-        "compare_ball": lambda v: v["compare_with"] == "ball",
-        "compare_spin_rpm": lambda v: v["compare_with"] == "spin",
-        "compare_speed_m_s": lambda v: v["compare_with"] == "speed",
-    }
-
-
 def _sidebar() -> dict:
-    if state_key(KIND, "dispersion_n") not in st.session_state:
-        st.session_state[state_key(KIND, "dispersion_n")] = 2000
     with st.sidebar:
         input_widget(SPEC, SPEC.field("ball"))
         input_widget(SPEC, SPEC.field("coefficient_model"))
-    return render_inputs(SPEC, skip=("ball", "coefficient_model") + study.SPREAD_KEYS, show_if=_show_if())
+    return render_inputs(SPEC, skip=("ball", "coefficient_model") + study.SPREAD_KEYS)
 
 
 # ----------------------------------------------------------------------------- tabs
@@ -435,12 +391,10 @@ st.caption("How far, how high and how much a spinning ball curves, with drag, Ma
 values = _sidebar()
 main_values = dict(values, dispersion_n=0)
 extra = _overlay_extra(st.session_state.get(OVERLAY_KEY, []))
-page_tools(study, extra=extra)
-try:
-    result = run_cached(KIND, main_values, extra=extra, label="Flying")
-except InputError as exc:
-    st.error(str(exc))
-    st.stop()
+result, problem = run_for_page(KIND, main_values, extra=extra, label="Flying")
+page_tools(study, extra=extra, problem=problem)
+if problem:
+    stop_for(problem)
 
 # Tabs track which one is open (so a button inside a tab keeps it open) and only the open one runs.
 TABS = ("Flight", "Launch sweep", "Launch spread", "Fit to tracked flights", "Balls and models")

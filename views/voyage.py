@@ -8,9 +8,11 @@ import streamlit as st
 from liftcore import windstats
 from liftcore.errors import InputError
 from liftcore.studies import voyage as study
-from views.common import (AIR_SHOW_IF, UNIT_LABELS, general_warnings, page_tools, render_inputs,
-                          run_cached, show_figure, show_headlines, show_sources_and_cautions,
-                          show_warnings, study_figures, study_tables, unit_system)
+from views.inputs import render_inputs, unit_system
+from views.results import (general_warnings, run_for_page, show_figure, show_headlines, stop_for,
+                           show_sources_and_cautions, show_warnings, study_figures, study_tables,
+                           units_caption)
+from views.tools import page_tools
 
 KIND = study.KIND
 UPLOAD_KEY = "voyage:upload"
@@ -40,22 +42,7 @@ st.caption("Expected thrust, net power gain, energy, fuel, CO₂ and money saved
            "sails over the wind of a trade, with the best spin in every wind condition, and a "
            "comparison of rotor sizes and counts. Opens on invented demo data.")
 
-only = {
-    "course_deg": lambda v: v["wind_kind"] == "weibull",
-    "round_trip": lambda v: v["wind_kind"] == "weibull",
-    "hours_from_series": lambda v: v["wind_kind"] == "series",
-    "ship_speed_m_s": lambda v: v["wind_kind"] != "series",
-    "speed_profile_kn": lambda v: v["wind_kind"] != "series",
-    "hours_at_sea_h": lambda v: v["wind_kind"] != "series" or not v["hours_from_series"],
-    "user_coefficients_csv": lambda v: v["coefficient_set"] == "user",
-    "user_aspect_ratio": lambda v: v["coefficient_set"] == "user",
-    "user_end_plate_ratio": lambda v: v["coefficient_set"] == "user",
-    **AIR_SHOW_IF,
-    "power_law_exponent": lambda v: v["wind_profile"] == "power",
-    "charnock_constant": lambda v: v["wind_profile"] == "log",
-    "sweep_max_rotors": lambda v: v["sweep"],
-}
-values = render_inputs(study.INPUTS, show_if=only)
+values = render_inputs(study.INPUTS)
 kind = values["wind_kind"]
 system = unit_system()
 
@@ -74,22 +61,18 @@ with fmt_col:
                            study.DEMO_FILES[kind].read_bytes(), file_name=study.DEMO_FILES[kind].name,
                            mime="text/csv", key=f"voyage:demo:{kind}")
 
-extra = None
+extra, problem = None, None
 if uploaded is not None:
     try:
         extra = windstats.read_csv_frame(uploaded.getvalue(), uploaded.name)
         extra.attrs["source_name"] = uploaded.name
     except InputError as exc:
-        st.error(str(exc), icon=":material/error:")
-        st.stop()
-page_tools(study, extra=extra)
-
-try:
-    result = run_cached(KIND, values, extra=extra, label="Computing the voyage")
-except InputError as exc:
-    st.error(str(exc), icon=":material/error:")
-    st.caption("Your inputs are kept; fix the file or the field named above.")
-    st.stop()
+        problem = str(exc)
+if problem is None:
+    result, problem = run_for_page(KIND, values, extra=extra, label="Computing the voyage")
+page_tools(study, extra=extra, problem=problem)
+if problem:
+    stop_for(problem, "Your inputs are kept; fix the file or the field named above.")
 
 d = result.detail
 s = d.summary
@@ -136,8 +119,7 @@ st.caption("(0.5144 V_ref / η_T) Σ F·W − Σ P·W from MEPC.1/Circ.896, with
 show_warnings(general_warnings(result), title="About the model and the data")
 
 with st.expander("Tables to download", expanded=False):
-    st.caption(f"In the units chosen at the top of the sidebar ({UNIT_LABELS[system]}); the unit of "
-               "each number is in its column name. Downloads hold the table as shown.")
+    st.caption(units_caption())
     for name, table in study_tables(study, result).items():
         st.markdown(f"**{name.replace('_', ' ').capitalize()}**")
         st.dataframe(table, hide_index=True, height=min(300, 40 + 35 * len(table)))

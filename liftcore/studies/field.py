@@ -49,7 +49,11 @@ INPUTS = InputSpec(KIND, (
            labels=("Air (air state below)", "Given (e.g. water)"), section="Free stream and fluid"),
     number("density_kg_m3", "Given density", "density", 1.225, 0.01, 2000.0,
            section="Free stream and fluid", help="For water about 998 kg/m³ at 20 °C (common practice)."),
-) + air_inputs())
+) + air_inputs(when=lambda v: v["density_mode"] == "air")).with_rules({
+    "rectangle_aspect": lambda v: v["loop_shape"] == "rectangle",
+    "free_stream_m_s": lambda v: v["free_stream_mode"] == "given",
+    "density_kg_m3": lambda v: v["density_mode"] == "given",
+})
 
 SOURCES = fc.REFERENCES + (
     "ISO 2533:1975 Standard Atmosphere (air density).",

@@ -91,7 +91,7 @@ INPUTS = InputSpec(KIND, (
            step=100.0),
     number("compare_speed_m_s", "Other launch speed", "ball_speed", 40.0, 0.0, 150.0, section="Second flight",
            step=0.1),
-    integer("dispersion_n", "Number of flights", 0, 0, 100000, section="Launch spread",
+    integer("dispersion_n", "Number of flights", 2000, 0, 100000, section="Launch spread",
             help="0 switches the spread off; 1,000 to 10,000 give steady percentiles."),
     integer("dispersion_seed", "Random seed", 1, 0, 2 ** 31 - 1, section="Launch spread",
             help="The same seed repeats the same draws."),
@@ -103,6 +103,20 @@ INPUTS = InputSpec(KIND, (
     number("sd_spin_axis_deg", "Spread of spin-axis tilt (1 sd)", "angle", 5.0, 0.0, 90.0,
            section="Launch spread", step=0.5),
 ))
+
+INPUTS = INPUTS.with_rules({
+    "custom_diameter_m": lambda v: v["ball"] == "custom",
+    "custom_mass_kg": lambda v: v["ball"] == "custom",
+    "constant_cd": lambda v: v["coefficient_model"] == "constant",
+    "constant_cl": lambda v: v["coefficient_model"] == "constant",
+    "density_kg_m3": lambda v: bool(v["set_density"]),
+    "wind_ref_height_m": lambda v: v["wind_profile"] == "power_law",
+    "wind_exponent": lambda v: v["wind_profile"] == "power_law",
+    "compare_altitude_m": lambda v: v["compare_with"] == "altitude",
+    "compare_ball": lambda v: v["compare_with"] == "ball",
+    "compare_spin_rpm": lambda v: v["compare_with"] == "spin",
+    "compare_speed_m_s": lambda v: v["compare_with"] == "speed",
+})
 
 SPREAD_KEYS = ("dispersion_n", "dispersion_seed", "sd_speed_m_s", "sd_elevation_deg", "sd_azimuth_deg",
                "sd_spin_rpm", "sd_spin_axis_deg")

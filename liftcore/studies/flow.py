@@ -29,7 +29,10 @@ INPUTS = InputSpec(KIND, (
                 "the lift points up. Negative: the other way round."),
     number("spin_rpm", "Rotation rate", "rotation", 150.0, -100000.0, 100000.0, section="Spin",
            step=10.0, help="Revolutions per minute; positive is clockwise in the pictures (lift up)."),
-) + air_inputs())
+) + air_inputs()).with_rules({
+    "spin_ratio": lambda v: v["spin_mode"] == "ratio",
+    "spin_rpm": lambda v: v["spin_mode"] == "rpm",
+})
 
 SOURCES = pot.REFERENCES + (
     "ISO 2533:1975 Standard Atmosphere (air density, speed of sound).",

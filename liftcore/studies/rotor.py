@@ -58,7 +58,14 @@ _CONDITION_FIELDS = (
            help="Revolutions per minute of the rotor."),
 )
 
-INPUTS = InputSpec(KIND, _CONDITION_FIELDS + rotor.ROTOR_FIELDS + air_inputs("Air"))
+INPUTS = InputSpec(KIND, _CONDITION_FIELDS + rotor.ROTOR_FIELDS + air_inputs("Air")).with_rules({
+    **rotor.ROTOR_SHOW_IF,
+    "true_wind_angle_deg": lambda v: v["wind_angle_reference"] == "relative",
+    "heading_deg": lambda v: v["wind_angle_reference"] == "compass",
+    "true_wind_direction_deg": lambda v: v["wind_angle_reference"] == "compass",
+    "spin_ratio": lambda v: v["spin_mode"] == "spin_ratio",
+    "spin_rpm": lambda v: v["spin_mode"] == "rpm",
+})
 
 SOURCES = (
     "Apparent wind: vector triangle of ship speed and true wind (leeway and current neglected).",

@@ -112,7 +112,16 @@ VOYAGE_FIELDS = (
 # The trade first (what this page is about), then the rotor inputs shared with the rotor page.
 _FIRST = tuple(f for f in VOYAGE_FIELDS if f.section in (_W, _S, _M))
 _LAST = tuple(f for f in VOYAGE_FIELDS if f.section not in (_W, _S, _M))
-INPUTS = InputSpec(KIND, _FIRST + tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs("Air")) + _LAST)
+INPUTS = InputSpec(KIND, _FIRST + tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs("Air")) + _LAST).with_rules({
+    **rotor.ROTOR_SHOW_IF,
+    "course_deg": lambda v: v["wind_kind"] == "weibull",
+    "round_trip": lambda v: v["wind_kind"] == "weibull",
+    "hours_from_series": lambda v: v["wind_kind"] == "series",
+    "ship_speed_m_s": lambda v: v["wind_kind"] != "series",
+    "speed_profile_kn": lambda v: v["wind_kind"] != "series",
+    "hours_at_sea_h": lambda v: v["wind_kind"] != "series" or not v["hours_from_series"],
+    "sweep_max_rotors": lambda v: v["sweep"],
+})
 
 SOURCES = (
     "IMO MEPC.308(73) (2018) and MEPC.364(79) (2022), Guidelines on the method of calculation of "

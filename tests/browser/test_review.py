@@ -116,9 +116,10 @@ def test_two_people_never_see_each_others_inputs(app_url, browser, shots_dir):
         switch_units(a, "imperial")  # A runs again after B's change (B ran after A's)
         no_exception(a)
         no_exception(b)
-        # 1 ft = 0.3048 m, 1 mph = 0.44704 m/s (exact definitions); inputs show 5 significant digits
-        assert float(number_input(a, "Cylinder radius").input_value()) == pytest.approx(0.7 / 0.3048, rel=1e-4)
-        assert float(number_input(a, "Flow speed").input_value()) == pytest.approx(8 / 0.44704, rel=1e-4)
+        # 1 ft = 0.3048 m, 1 mph = 0.44704 m/s (exact definitions); inputs show the fewest digits
+        # within 0.1 % (2.3 ft, 17.9 mph)
+        assert float(number_input(a, "Cylinder radius").input_value()) == pytest.approx(0.7 / 0.3048, rel=1e-3)
+        assert float(number_input(a, "Flow speed").input_value()) == pytest.approx(8 / 0.44704, rel=1e-3)
         assert float(number_input(b, "Cylinder radius").input_value()) == pytest.approx(0.5)
         assert float(number_input(b, "Flow speed").input_value()) == pytest.approx(12.0)
         assert headline_values(b) != base
