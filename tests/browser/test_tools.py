@@ -29,8 +29,9 @@ def test_two_keeps_give_two_options_with_the_next_free_name(app_url, browser):
         set_number(page, "Cylinder radius", "0.6")  # a rerun between the two keeps
         assert keep(page) == "Option 2"
         no_exception(page)
-        page.goto(f"{app_url}/compare")
-        wait_for_app(page)
+        # through the navigation (a new address would start a new session, without the options)
+        page.locator('[data-testid="stSidebarNav"] a', has_text="Compare options").first.click()
+        settle(page)
         for name in ("Option 1", "Option 2"):
             assert page.get_by_text(name, exact=True).count() >= 1, name
     finally:
