@@ -36,7 +36,7 @@ import numpy as np
 import pandas as pd
 
 from liftcore.errors import InputError, check_choice, check_number, check_positive
-from liftcore.validity import ModelWarning, merge
+from liftcore.validity import ModelWarning, merge, quantity_warning
 
 #: Largest field file read, and the largest number of grid points accepted.
 MAX_FIELD_BYTES = 50_000_000
@@ -561,11 +561,11 @@ def circulation_from_field(field: VelocityField, body_centre_m, body_radius_m: f
         "Kutta-Joukowski with the loop circulation assumes steady, two-dimensional flow at the "
         "measured cross-section; it gives lift only, not drag.", "lift_per_span_n_m")]
     if source == "edges":
-        warnings.append(ModelWarning(
+        warnings.append(quantity_warning(
             "free_stream_from_edges",
-            f"Free-stream speed {v_inf:.3g} m/s is the mean velocity round the grid edge; a wake "
+            "Free-stream speed {speed} is the mean velocity round the grid edge; a wake "
             "leaving the grid lowers it. Give the measured free-stream speed if you know it.",
-            "free_stream_speed_m_s"))
+            {"speed": (v_inf, "speed")}, "free_stream_speed_m_s"))
     if g_set.size < 2:
         warnings.append(ModelWarning(
             "one_settled_loop", "Only one loop counts toward the estimate, so there is no "
@@ -578,11 +578,12 @@ def circulation_from_field(field: VelocityField, body_centre_m, body_radius_m: f
             "circulation_m2_s"))
     smallest = float(sizes[settled].min())
     if smallest < 2.0 * rb:
-        warnings.append(ModelWarning(
+        warnings.append(quantity_warning(
             "settled_loops_near_body",
-            f"The smallest loop counted ({smallest:.3g} m) is within two body radii "
-            f"({2 * rb:.3g} m) of the centre, where the viscous layer may still be cut; "
-            "prefer larger loops.", "circulation_m2_s"))
+            "The smallest loop counted ({smallest}) is within two body radii "
+            "({two_radii}) of the centre, where the viscous layer may still be cut; "
+            "prefer larger loops.", {"smallest": (smallest, "length"), "two_radii": (2 * rb, "length")},
+            "circulation_m2_s"))
     return CirculationResult(
         loop_shape=shape, rectangle_aspect=asp, loop_sizes_m=tuple(float(s) for s in sizes),
         loop_labels=tuple(lp.label for lp in loops),

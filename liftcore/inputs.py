@@ -74,10 +74,14 @@ class Field:
         """Whether this input matters for ``values`` (see ``show_if``)."""
         return self.show_if is None or bool(self.show_if(values))
 
-    def unit(self, system: str = "SI") -> str:
-        if self.kind not in ("number", "int") or self.quantity in ("ratio", "money"):
+    def unit(self, system: str = "SI", currency: str = "") -> str:
+        """The unit label shown with this input in ``system``; money carries ``currency``."""
+        if self.kind not in ("number", "int") or self.quantity == "ratio":
             return ""
-        return units.unit_label(self.quantity, system)
+        if self.quantity == "money":
+            return currency
+        label = units.unit_label(self.quantity, system)
+        return f"{currency} {label}" if self.quantity == "money_rate" and currency else label
 
     def choice_label(self, value) -> str:
         if self.choice_labels and value in self.choices:

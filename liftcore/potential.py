@@ -28,7 +28,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from liftcore.errors import check_number, check_positive
-from liftcore.validity import MACH_INCOMPRESSIBLE_LIMIT, ModelWarning, mach_warning, merge
+from liftcore.validity import MACH_INCOMPRESSIBLE_LIMIT, ModelWarning, mach_warning, merge, quantity_warning
 
 #: rad/s per rpm (one revolution is 2 pi rad, one minute 60 s; definition).
 RAD_S_PER_RPM = 2.0 * math.pi / 60.0
@@ -480,10 +480,11 @@ def ideal_spinning_cylinder(radius_m: float, speed_m_s: float, spin_rad_s: float
         a = check_positive("speed of sound", speed_of_sound_m_s, "m/s")
         warnings += mach_warning(v, a, subject="lift_per_span_n_m")
         if peak / a > MACH_INCOMPRESSIBLE_LIMIT and v / a <= MACH_INCOMPRESSIBLE_LIMIT:
-            warnings.append(ModelWarning(
+            warnings.append(quantity_warning(
                 "surface_mach_above_0_3",
-                f"the fastest surface flow ({peak:.3g} m/s) reaches Mach {peak / a:.2f}, above "
-                f"{MACH_INCOMPRESSIBLE_LIMIT}: compressibility is not modelled", "lift_per_span_n_m"))
+                f"the fastest surface flow ({{peak}}) reaches Mach {peak / a:.2f}, above "
+                f"{MACH_INCOMPRESSIBLE_LIMIT}: compressibility is not modelled",
+                {"peak": (peak, "speed")}, "lift_per_span_n_m"))
     return IdealCylinderResult(
         radius_m=r, speed_m_s=v, spin_rad_s=w, spin_rpm=w / RAD_S_PER_RPM, density_kg_m3=rho,
         spin_ratio=sr, circulation_m2_s=gamma, lift_per_span_n_m=lift,

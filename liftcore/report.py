@@ -74,10 +74,11 @@ def run_comparison(c: Comparison, progress=None) -> list[Run]:
 
 
 # ----------------------------------------------------------------------------- numbers as text
-def input_text(f: Field, value, system: str = "SI") -> tuple[str, str]:
-    """(value text, unit) of one input in ``system``."""
+def input_text(f: Field, value, system: str = "SI", currency: str = "") -> tuple[str, str]:
+    """(value text, unit) of one input in ``system`` (money in ``currency``)."""
     if f.kind == "number":
-        return format_number(float(units.to_display(value, f.quantity, system)), 6), f.unit(system)
+        return (format_number(units.tidy(units.to_display(value, f.quantity, system)), 7),
+                f.unit(system, currency))
     if f.kind == "int":
         return str(int(value)), f.unit(system)
     if f.kind == "bool":
@@ -93,7 +94,7 @@ def input_rows(kind: str, values: dict, system: str = "SI") -> list[dict]:
     fields = [f for _, group in study(kind).INPUTS.sections() for f in group]
     for f in fields:
         v = values.get(f.key, f.default)
-        text, unit = input_text(f, v, system)
+        text, unit = input_text(f, v, system, values.get("currency", ""))
         core_unit = units.core_unit_label(f.quantity) if f.kind == "number" and f.quantity in units.CORE else ""
         rows.append({"section": f.section, "label": f.label, "key": f.key, "text": text, "unit": unit,
                      "core_value": v, "core_unit": core_unit, "changed": v != f.default})
@@ -142,8 +143,9 @@ def input_diff_rows(kind: str, runs: list[Run], system: str = "SI") -> list[dict
     rows = []
     for f in study(kind).INPUTS.fields:
         vals = [r.inputs.get(f.key, f.default) for r in runs]
+        currency = runs[0].inputs.get("currency", "") if runs else ""
         texts = [input_text(f, v, system)[0] for v in vals]
-        rows.append({"key": f.key, "section": f.section, "label": f.label, "unit": f.unit(system),
+        rows.append({"key": f.key, "section": f.section, "label": f.label, "unit": f.unit(system, currency),
                      "values": vals, "texts": texts, "differs": any(v != vals[0] for v in vals)})
     return rows
 
@@ -186,7 +188,7 @@ def tables_for(kind: str, result: StudyResult, system: str = "SI") -> dict:
     return dict(make(result, system)) if callable(make) else dict(result.tables)
 
 
-def _key_figure(kind: str, result: StudyResult, system: str = "SI"):
+def key_figure(kind: str, result: StudyResult, system: str = "SI"):
     """The study's key chart for comparisons: ``COMPARE_FIGURE`` (index or title; ``None`` for
     none) when the study sets it, else its first flat chart that can be overlaid, else its first."""
     figures = figures_for(kind, result, system)
@@ -224,7 +226,7 @@ def overlay_figure(runs: list[Run], system: str = "SI"):
     """
     if not runs:
         return None
-    picked = [_key_figure(r.kind, r.result, system) for r in runs]
+    picked = [key_figure(r.kind, r.result, system) for r in runs]
     if any(p is None for p in picked):
         return None
     for _, fig in picked:
@@ -371,19 +373,21 @@ def _invented_badge(*texts: str) -> str:
 def _headline_cards(result: StudyResult, system: str) -> str:
     cards = []
     for h in result.headlines:
-        warns = "".join(f"<div class=\"warn\">⚠ {_e(w.message)}</div>" for w in result.warnings
+        warns = "".join(f"<div class=\"warn\">⚠ {_e(w.text(system))}</div>" for w in result.warnings
                         if w.subject == h.key)
+        if h.note(system):
+            warns = f"<div class=\"note\">{_e(h.note(system))}</div>" + warns
         cards.append(f"<div class=\"card\"><div class=\"label\">{_e(h.label)}</div>"
                      f"<div class=\"value\">{_e(h.text(system))}</div>{warns}</div>")
     return f"<div class=\"headlines\">{''.join(cards)}</div>"
 
 
-def _warnings_html(result: StudyResult) -> str:
+def _warnings_html(result: StudyResult, system: str = "SI") -> str:
     keys = {h.key for h in result.headlines}
     general = [w for w in result.warnings if w.subject not in keys]
     if not result.warnings:
         return "<p>No model warnings for these inputs.</p>"
-    items = [f"<li class=\"sev-{_e(w.severity)}\">{'Not valid: ' if w.severity == 'invalid' else ''}{_e(w.message)}</li>"
+    items = [f"<li class=\"sev-{_e(w.severity)}\">{'Not valid: ' if w.severity == 'invalid' else ''}{_e(w.text(system))}</li>"
              for w in general]
     shown = len(result.warnings) - len(general)
     extra = f"<p>{shown} more beside the numbers they qualify, above.</p>" if shown else ""
@@ -458,7 +462,7 @@ def scenario_report(s: Scenario, result: StudyResult, unit_system: str | None = 
         f"<p class=\"note\">{_e(data_note)}</p>" if data_note else "",
         "</header>",
         "<section><h2>Results</h2>", _headline_cards(result, system), "</section>",
-        "<section><h2>Warnings</h2>", _warnings_html(result), "</section>",
+        "<section><h2>Warnings</h2>", _warnings_html(result, system), "</section>",
         f"<section><h2>Cautions</h2>{cautions or '<p>None stated.</p>'}</section>",
         f"<section><h2>Charts</h2>{figs or '<p>This study draws no charts.</p>'}</section>",
         "<section><h2>Inputs</h2>", _inputs_table(s.kind, s.inputs, system), "</section>",
@@ -518,7 +522,7 @@ def comparison_report(runs: list[Run], title: str = "", note: str = "", unit_sys
                         f"<figcaption>{_e(ov[0])}</figcaption></figure>")
         else:
             for i, r in enumerate(group):
-                kf = _key_figure(kind, r.result, system)
+                kf = key_figure(kind, r.result, system)
                 if kf is not None:
                     body.append(f"<h3>{_e(r.name)}: {_e(kf[0])}</h3><figure class=\"chart\">"
                                 f"{_figure_html(kf[1], f'kf{gi}_{i}')}</figure>")
@@ -527,7 +531,7 @@ def comparison_report(runs: list[Run], title: str = "", note: str = "", unit_sys
         for r in group:
             if r.result.warnings:
                 any_w = True
-                items = "".join(f"<li class=\"sev-{_e(w.severity)}\">{_e(w.message)}</li>" for w in r.result.warnings)
+                items = "".join(f"<li class=\"sev-{_e(w.severity)}\">{_e(w.text(system))}</li>" for w in r.result.warnings)
                 body.append(f"<p><b>{_e(r.name)}</b></p><ul class=\"warnings\">{items}</ul>")
         if not any_w:
             body.append("<p>No model warnings for these options.</p>")
@@ -586,7 +590,7 @@ def scenario_csv(s: Scenario, result: StudyResult, unit_system: str | None = Non
     w.writerow(["warnings"])
     w.writerow(["subject", "severity", "code", "message"])
     for wn in result.warnings:
-        w.writerow([wn.subject, wn.severity, wn.code, wn.message])
+        w.writerow([wn.subject, wn.severity, wn.code, wn.text(system)])
     out = [buf.getvalue()]
     for name, df in result.tables.items():
         out.append(f"\ntable,{_csv_cell(name)}\n")
@@ -632,5 +636,5 @@ def comparison_csv(runs: list[Run], unit_system: str = "SI") -> str:
         w.writerow(["option", "subject", "severity", "code", "message"])
         for r in group:
             for wn in r.result.warnings:
-                w.writerow([r.name, wn.subject, wn.severity, wn.code, wn.message])
+                w.writerow([r.name, wn.subject, wn.severity, wn.code, wn.text(unit_system)])
     return buf.getvalue()

@@ -50,7 +50,7 @@ from liftcore import coefficients as coef
 from liftcore import wind
 from liftcore.errors import InputError, check_choice, check_number, check_positive
 from liftcore.inputs import Field, choice, flag, integer, number, text
-from liftcore.validity import ModelWarning
+from liftcore.validity import ModelWarning, quantity_warning
 
 #: Rotor states in :class:`Operation`.
 STOPPED, RUNNING, AT_LIMIT = 0, 1, 2
@@ -1544,22 +1544,21 @@ def _warnings(setup: RotorSetup, w: _Wind, omega, res, sr_op, re, flags, mode, n
                                              f"{setup.max_rpm:g} rpm{_count(m, n)}.", "rpm"))
     m = (flags & FLAG_MOTOR_POWER) != 0
     if m.any():
-        out.append(ModelWarning("motor_power_limit", f"Spin {verb} the maximum motor power "
-                                                     f"{setup.max_motor_power_w / 1000:g} kW per rotor{_count(m, n)}.",
-                                "spin_power_w"))
+        out.append(quantity_warning("motor_power_limit", f"Spin {verb} the maximum motor power "
+                                    f"{{limit}} per rotor{_count(m, n)}.",
+                                    {"limit": (setup.max_motor_power_w, "power")}, "spin_power_w"))
     m = (flags & FLAG_HEEL) != 0
     if m.any():
         what = "Spin limited by" if mode == "best" else "Heeling moment above"
-        out.append(ModelWarning("heel_limit", f"{what} the heeling-moment limit "
-                                              f"{setup.max_heeling_moment_nm / 1000:,.0f} kN·m{_count(m, n)}"
-                                              + ("." if mode == "best" else ": reduce spin."),
-                                "heeling_moment_nm"))
+        out.append(quantity_warning("heel_limit", f"{what} the heeling-moment limit "
+                                    f"{{limit}}{_count(m, n)}" + ("." if mode == "best" else ": reduce spin."),
+                                    {"limit": (setup.max_heeling_moment_nm, "moment")}, "heeling_moment_nm"))
     m = (flags & FLAG_HEEL_WHEN_STOPPED) != 0
     if m.any():
-        out.append(ModelWarning("heel_above_limit_when_stopped",
-                                f"Even the stopped rotors heel the ship more than the limit "
-                                f"{setup.max_heeling_moment_nm / 1000:,.0f} kN·m{_count(m, n)}.",
-                                "heeling_moment_nm"))
+        out.append(quantity_warning("heel_above_limit_when_stopped",
+                                    f"Even the stopped rotors heel the ship more than the limit "
+                                    f"{{limit}}{_count(m, n)}.",
+                                    {"limit": (setup.max_heeling_moment_nm, "moment")}, "heeling_moment_nm"))
     m = (flags & FLAG_SPIN_RATIO_LIMIT) != 0
     if m.any():
         out.append(ModelWarning("spin_ratio_limit",
@@ -1586,11 +1585,13 @@ def _warnings(setup: RotorSetup, w: _Wind, omega, res, sr_op, re, flags, mode, n
         offset = setup.rotor_spacing_m * np.abs(np.sin(w.beta_mid))
         m = (offset < setup.diameter_m) & (w.va_mid > CALM_M_S)
         if m.any():
-            out.append(ModelWarning("rotors_in_each_others_wake",
-                                    "With the apparent wind this close to the ship's axis the rotors "
-                                    f"stand in each other's wake (offset across the wind "
-                                    f"{offset[m].min():.1f} m < diameter {setup.diameter_m:g} m): "
-                                    f"the interaction factor matters here{_count(m, n)}.", "thrust_n"))
+            out.append(quantity_warning("rotors_in_each_others_wake",
+                                        "With the apparent wind this close to the ship's axis the rotors "
+                                        "stand in each other's wake (offset across the wind "
+                                        "{offset} < diameter {diameter}): "
+                                        f"the interaction factor matters here{_count(m, n)}.",
+                                        {"offset": (offset[m].min(), "length", 2),
+                                         "diameter": (setup.diameter_m, "length")}, "thrust_n"))
     if (w.ship <= 0).any():
         m = w.ship <= 0
         out.append(ModelWarning("zero_ship_speed", "At zero ship speed thrust saves no engine power: "

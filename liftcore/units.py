@@ -8,6 +8,7 @@ marine system, ``"wind_speed"`` too, while ``"ball_speed"`` is m/s there).
 
 from __future__ import annotations
 
+import math
 from functools import lru_cache
 
 import numpy as np
@@ -140,3 +141,52 @@ def _apply(value, a: float, b: float):
     if isinstance(value, (list, tuple, np.ndarray)):
         return np.asarray(value, dtype=float) * a + b
     return float(value) * a + b
+
+
+def format_number(v, digits: int = 3) -> str:
+    """A number as people read it: ``digits`` significant digits (never fewer than the integer
+    digits: 14,641, not 1.46e+04), thousands separators from 1,000 up, no trailing zeros, and
+    ``–`` for a missing value. Sizes below 0.001 are written as 2.5e-04."""
+    if v is None or v != v:
+        return "–"
+    v = float(v)
+    if v == 0:
+        return "0"
+    if math.isinf(v):
+        return "∞" if v > 0 else "-∞"
+    if abs(v) < 1e-3:
+        return f"{v:.2e}"
+    if abs(v) < 1:
+        return f"{v:.{digits}g}"
+    decimals = max(0, digits - len(str(int(abs(v)))))
+    text = f"{v:,.{decimals}f}"
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")
+    return "0" if text in ("-0", "") else text
+
+
+def quantity_text(value, kind: str, system: str, digits: int = 3) -> str:
+    """A core value of ``kind`` as text in ``system``, with its unit: ``"150 kW"``, ``"201 hp"``."""
+    if kind in ("ratio", "money"):
+        return format_number(value, digits)
+    unit = unit_label(kind, system)
+    return f"{format_number(to_display(value, kind, system), digits)}{' ' + unit if unit else ''}"
+
+
+#: An input is shown with the fewest digits that keep it within this relative error: 6.17 m/s
+#: for 12 kn (6.1733 m/s), 3.28 ft for 1 m. A tenth of a per cent is far below the uncertainty
+#: of any input here; the core keeps the exact value until the user changes it.
+DISPLAY_TOLERANCE = 1e-3
+
+
+def tidy(x: float, tolerance: float = DISPLAY_TOLERANCE) -> float:
+    """The number with the fewest significant digits (1 to 7) within ``tolerance`` of ``x``
+    relatively: ``tidy(6.1733) == 6.17``, ``tidy(3.28084) == 3.28``, ``tidy(1013.25) == 1013``."""
+    x = float(x)
+    if x == 0 or not math.isfinite(x):
+        return x
+    for digits in range(1, 8):
+        y = float(f"{x:.{digits}g}")
+        if abs(y - x) <= tolerance * abs(x):
+            return y
+    return float(f"{x:.7g}")

@@ -35,10 +35,33 @@ class ModelWarning:
     message: str
     subject: str = ""
     severity: str = "caution"
+    #: For messages with quantities: the message with ``{name}`` placeholders, and the
+    #: quantities as ``(name, core value, quantity kind, digits)``; :meth:`text` writes them in
+    #: a unit system, ``message`` holds the SI text.
+    template: str = ""
+    quantities: tuple = ()
+
+    def text(self, system: str = "SI") -> str:
+        """The message with its quantities in the display units of ``system``."""
+        if not self.template:
+            return self.message
+        from liftcore.units import quantity_text
+
+        return self.template.format(**{name: quantity_text(value, kind, system, digits)
+                                       for name, value, kind, digits in self.quantities})
 
     def as_dict(self) -> dict:
         return {"code": self.code, "message": self.message, "subject": self.subject,
                 "severity": self.severity}
+
+
+def quantity_warning(code: str, template: str, quantities: dict, subject: str = "",
+                     severity: str = "caution") -> ModelWarning:
+    """A warning whose numbers follow the unit switch: ``template`` holds ``{name}`` where each
+    quantity goes; ``quantities`` maps name -> (core value, quantity kind[, digits])."""
+    qs = tuple((name, float(q[0]), q[1], q[2] if len(q) > 2 else 3) for name, q in quantities.items())
+    w = ModelWarning(code, "", subject, severity, template, qs)
+    return ModelWarning(code, w.text("SI"), subject, severity, template, qs)
 
 
 def range_warning(code: str, what: str, values, low: float, high: float, unit: str = "",

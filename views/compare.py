@@ -14,7 +14,7 @@ import streamlit as st
 
 from liftcore.errors import InputError
 from liftcore.report import (Run, comparison_csv, comparison_report, difference_text, group_by_kind,
-                             headline_diff_rows, input_diff_rows, overlay_figure, _key_figure)
+                             headline_diff_rows, input_diff_rows, overlay_figure, key_figure)
 from liftcore.scenario import MAX_OPTIONS, Comparison, Option, comparison_to_toml
 from liftcore.studies import STUDY_MODULES, study
 from views import inputs, results, tools
@@ -27,6 +27,13 @@ table.lc-compare th, table.lc-compare td { border: 1px solid #c8c8c8; padding: 0
 table.lc-compare th { background: #eef3f8; }
 table.lc-compare td.num { text-align: right; font-variant-numeric: tabular-nums; }
 table.lc-compare tr.differs td { background: #fff3c4; font-weight: 700; }
+table.lc-compare span.diff { font-size: 1.0rem; color: #333; font-weight: 400; }
+table.lc-compare sup.warn { color: #8a4b00; font-weight: 700; }
+table.lc-compare ol.lc-warnings { text-align: left; font-size: 1.0rem; margin: 0; padding-left: 1.4rem;
+  font-weight: 400; }
+table.lc-compare ol.lc-warnings li.sev-invalid { color: #a40000; }
+ol.lc-warnings { font-size: 1.05rem; }
+p.lc-common { margin: 0.2rem 0 0 0; }
 .lc-option-name { font-size: 1.6rem; font-weight: 700; margin: 0; }
 </style>
 """
@@ -45,8 +52,9 @@ def _load_demo() -> None:
     except (InputError, OSError) as exc:
         tools.flash("compare", "error", f"The demo comparison could not be loaded: {exc}")
         return
-    tools.load_comparison(doc)
-    tools.flash("compare", "success", f"Loaded the invented demo comparison ({len(doc.options)} options).")
+    said = tools.load_comparison(doc)
+    tools.flash("compare", "success", f"Loaded the invented demo comparison "
+                                      f"({tools.plural(len(doc.options), 'option')}).{said}")
 
 
 def _clear() -> None:
@@ -84,8 +92,8 @@ with st.sidebar:
     if up is not None:
         doc = tools.read_upload(up, None)
         if isinstance(doc, Comparison):
-            tools.load_comparison(doc)
-            tools.flash("compare", "success", f"Loaded {up.name}: {len(doc.options)} options.")
+            said = tools.load_comparison(doc)
+            tools.flash("compare", "success", f"Loaded {up.name}: {tools.plural(len(doc.options), 'option')}.{said}")
         elif doc is not None:
             try:
                 msg = tools.keep_option(doc.kind, _option_name(doc.title or Path(up.name).stem),
@@ -149,79 +157,93 @@ d2.download_button("Numbers (.csv)", data=_csv, file_name=f"{tools.file_stem(cmp
                    key="_lc:cmp_csv")
 
 
-def _table(head: list[str], rows: list[tuple[list[str], bool]]) -> str:
+def _table(head: list[str], rows: list[tuple[list[str], bool]], raw_cells: bool = False) -> str:
+    """An HTML table: the first column words, the others numbers; ``raw_cells`` takes the
+    option cells as ready HTML (escaped by the caller)."""
     ths = "".join(f"<th>{html.escape(h)}</th>" for h in head)
     trs = []
     for cells, differs in rows:
         tds = [f"<td>{'≠ ' if differs else ''}{html.escape(cells[0])}</td>"]
-        tds += [f"<td class='num'>{html.escape(c)}</td>" for c in cells[1:]]
+        tds += [f"<td class='num'>{c if raw_cells else html.escape(c)}</td>" for c in cells[1:]]
         trs.append(f"<tr class='{'differs' if differs else 'same'}'>{''.join(tds)}</tr>")
     return f"<table class='lc-compare'><thead><tr>{ths}</tr></thead><tbody>{''.join(trs)}</tbody></table>"
+
+
+def _results_table(group: list[Run]) -> str:
+    """One row per result, one column per option with its difference to the first. Each warning
+    has a number; a result it qualifies carries the number, and the warnings are written out in
+    full (nobody hovers on a shared screen): those of one option in its column, those that hold
+    for every option once, under the table."""
+    texts = {}  # warning text -> number, in order of first appearance
+    per_option = []
+    for r in group:
+        own = []
+        for w in r.result.warnings:
+            t = w.text(system)
+            texts.setdefault(t, len(texts) + 1)
+            own.append((texts[t], t, w))
+        per_option.append(own)
+    shared = set.intersection(*({t for _, t, _ in own} for own in per_option)) if len(group) > 1 else set()
+    rows = []
+    for row in headline_diff_rows(group, system):
+        cells = [row["label"]]
+        for j, (text, diff) in enumerate(zip(row["texts"], row["diffs"])):
+            marks = [str(n) for n, _, w in per_option[j] if w.subject == row["key"]]
+            cell = html.escape(text)
+            if j and diff not in ("same", "–"):
+                cell += f"<br><span class='diff'>{html.escape(diff)}</span>"
+            if marks:
+                cell += f" <sup class='warn'>⚠ {', '.join(marks)}</sup>"
+            cells.append(cell)
+        rows.append((cells, row["differs"]))
+
+    def items(entries) -> str:
+        return "".join(f"<li value='{n}' class='sev-{html.escape(w.severity)}'>{html.escape(t)}</li>"
+                       for n, t, w in entries)
+    own_rows = [items([e for e in own if e[1] not in shared]) for own in per_option]
+    if any(own_rows):
+        rows.append((["Warnings"] + [f"<ol class='lc-warnings'>{o}</ol>" if o else "none" for o in own_rows], False))
+    out = _table(["Result"] + [r.name for r in group], rows, raw_cells=True)
+    common = [e for e in per_option[0] if e[1] in shared]
+    if common:
+        out += f"<p class='lc-common'><b>For every option:</b></p><ol class='lc-warnings'>{items(common)}</ol>"
+    return out
 
 
 index_of = {id(o): i for i, o in enumerate(tools.kept_options())}
 for gi, (kind, group) in enumerate(group_by_kind(runs)):
     mod = study(kind)
     group_opts = [o for o in options if o["kind"] == kind]
+    names = [r.name for r in group]
     st.header(f"{mod.TITLE}", divider="gray")
-    cols = st.columns(len(group))
-    for col, r, o in zip(cols, group, group_opts):
+    # the option names with their buttons, in the order of the table's columns
+    cols = st.columns([1.2] + [1] * len(group))
+    cols[0].markdown("**Options**")
+    for col, r, o in zip(cols[1:], group, group_opts):
         with col:
             st.markdown(f"<p class='lc-option-name'>{html.escape(r.name)}</p>", unsafe_allow_html=True)
-            b1, b2 = st.columns(2)
-            b1.button("Open", key=f"_lc:open:{index_of[id(o)]}", on_click=_open_option,
-                      args=(index_of[id(o)],), icon=":material/open_in_new:",
+            st.button("Open", key=f"_lc:open:{index_of[id(o)]}", on_click=_open_option,
+                      args=(index_of[id(o)],), icon=":material/open_in_new:", width="stretch",
                       help="Open these inputs on the study's page")
-            b2.button("Remove", key=f"_lc:remove:{index_of[id(o)]}", on_click=tools.remove_option,
-                      args=(index_of[id(o)],), icon=":material/close:")
-    # one row per result, options side by side, so the same number lines up across the room
-    first = group[0].result
-    for h0 in first.headlines:
-        row = st.columns(len(group))
-        for col, r in zip(row, group):
-            try:
-                h = r.result.headline(h0.key)
-            except KeyError:
-                col.metric(h0.label, "–", border=True)
-                continue
-            delta = None if r is group[0] else difference_text(h0, h, system)
-            warned = [w.message for w in r.result.warnings if w.subject == h.key]
-            tip = "\n\n".join(([h.help] if h.help else []) + [f"⚠ {m}" for m in warned]) or None
-            col.metric(f"{h.label}{'  ⚠' if warned else ''}", h.text(system),
-                       delta=None if delta in (None, "same", "–") else delta, delta_color="off",
-                       help=tip, border=True)
-    # warnings once each, naming the options they apply to
-    seen: dict[tuple, list[str]] = {}
-    for r in group:
-        for w in r.result.warnings:
-            seen.setdefault((w.severity, w.message), []).append(r.name)
-    if seen:
-        with st.expander(f"Model warnings ({len(seen)}); ⚠ marks the results they qualify",
-                         expanded=any(sev == "invalid" for sev, _ in seen)):
-            for (sev, msg), who in seen.items():
-                where = "all options" if len(who) == len(group) else ", ".join(who)
-                (st.error if sev == "invalid" else st.warning)(f"**{where}**: {msg}", icon=":material/warning:")
+            st.button("Remove", key=f"_lc:remove:{index_of[id(o)]}", on_click=tools.remove_option,
+                      args=(index_of[id(o)],), icon=":material/close:", width="stretch")
+    st.subheader("Results" + (f", with the difference to {names[0]}" if len(group) > 1 else ""))
+    st.markdown(_results_table(group), unsafe_allow_html=True)
 
     irows = input_diff_rows(kind, group, system)
     differ = [r for r in irows if r["differs"]]
-    names = [r.name for r in group]
     st.subheader(f"Inputs that differ ({len(differ)} of {len(irows)})")
     if differ:
         st.markdown(_table(["Input"] + names, [([r["label"] + (f" [{r['unit']}]" if r["unit"] else "")] + r["texts"], True)
                                                for r in differ]), unsafe_allow_html=True)
     else:
-        st.markdown("All inputs are the same in every option.")
-    if len(group) > 1:
-        hrows = headline_diff_rows(group, system)
-        st.subheader(f"Results, with the difference to {names[0]}")
-        st.markdown(_table(["Result"] + names,
-                           [([r["label"], r["texts"][0]] + [f"{t} ({d})" for t, d in zip(r["texts"][1:], r["diffs"][1:])],
-                             r["differs"]) for r in hrows]), unsafe_allow_html=True)
+        st.markdown("All inputs are the same in every option." if len(group) > 1 else
+                    "One option only: keep another to see what differs.")
     ov = overlay_figure(group, system)
     if ov is not None:
         results.show_figure(ov[1], key=f"_lc:overlay:{gi}")
     else:
-        figs = [(r.name, _key_figure(kind, r.result, system)) for r in group]
+        figs = [(r.name, key_figure(kind, r.result, system)) for r in group]
         figs = [(n, f) for n, f in figs if f is not None]
         if figs:
             fcols = st.columns(len(figs))
@@ -234,7 +256,8 @@ for gi, (kind, group) in enumerate(group_by_kind(runs)):
                                                 r["differs"]) for r in irows]), unsafe_allow_html=True)
     comp = Comparison(kind=kind, options=tuple(Option(r.name, r.inputs, r.note) for r in group),
                       title=cmp_title, note=cmp_note, unit_system=system)
-    st.download_button(f"Save these {len(group)} options as a comparison file (.toml)",
+    st.download_button("Save this option as a comparison file (.toml)" if len(group) == 1 else
+                       f"Save these {len(group)} options as a comparison file (.toml)",
                        data=comparison_to_toml(comp), file_name=f"{tools.file_stem(cmp_title)}-{kind}.toml",
                        mime="application/toml", icon=":material/download:", on_click="ignore",
                        key=f"_lc:cmp_save:{kind}")

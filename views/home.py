@@ -9,24 +9,40 @@ st.markdown(
     "that explains both. Every page opens on an invented demo case; change any input in the "
     "sidebar. Units switch at the top of the sidebar."
 )
-c1, c2, c3, c4 = st.columns(4)
-with c1:
-    st.subheader("Rotor sails")
-    st.page_link("views/rotor.py", label="Rotor sail on a ship", icon=":material/sailing:")
-    st.page_link("views/voyage.py", label="Voyage savings", icon=":material/route:")
-with c2:
-    st.subheader("Spinning balls")
-    st.page_link("views/flight.py", label="Spinning ball flight", icon=":material/sports_baseball:")
-with c3:
-    st.subheader("Theory and measurement")
-    st.page_link("views/flow.py", label="Flow around a spinning cylinder", icon=":material/cyclone:")
-    st.page_link("views/field.py", label="Circulation from a measured field", icon=":material/grid_on:")
-with c4:
-    st.subheader("Design reviews")
-    st.page_link("views/compare.py", label="Compare options", icon=":material/compare:")
-    st.caption("On any page: **Keep as option** to compare up to four side by side, "
-               "**Handout report** for a self-contained HTML file, and **Save, load, share** for "
-               "scenario files and a link that reopens the same view.")
+
+#: (heading, [(page file, label, icon, what it answers)])
+GROUPS = (
+    ("Rotor sails", (
+        ("views/rotor.py", "Rotor sail on a ship", ":material/sailing:",
+         "Thrust, side force, heel and spin power in one wind, with every coefficient set."),
+        ("views/voyage.py", "Voyage savings", ":material/route:",
+         "Fuel, CO₂ and money over a year on a trade; which rotor size and how many."),
+    )),
+    ("Spinning balls", (
+        ("views/flight.py", "Spinning ball flight", ":material/sports_baseball:",
+         "Carry, height and curve with drag, Magnus lift, spin decay, wind and air; sweeps, "
+         "spread and fits to tracked flights."),
+    )),
+    ("Theory and measurement", (
+        ("views/flow.py", "Flow around a spinning cylinder", ":material/cyclone:",
+         "The ideal flow and its Kutta-Joukowski lift, checked against the surface pressure."),
+        ("views/field.py", "Circulation from a measured field", ":material/grid_on:",
+         "Circulation and lift per span from a gridded velocity field."),
+    )),
+    ("Design reviews", (
+        ("views/compare.py", "Compare options", ":material/compare:",
+         "Up to four options side by side. On any page: Keep as option, Handout report, and "
+         "Save, load, share (scenario files and a link that reopens the same view)."),
+    )),
+)
+
+for row in (GROUPS[:2], GROUPS[2:]):
+    for col, (heading, links) in zip(st.columns(2, gap="large"), row):
+        with col:
+            st.subheader(heading)
+            for path, label, icon, what in links:
+                st.page_link(path, label=label, icon=icon)
+                st.caption(what)
 st.divider()
 st.caption(
     "Results are engineering estimates. Rotor sails change a ship's stability, structure and "

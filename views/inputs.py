@@ -25,6 +25,7 @@ import streamlit as st
 from liftcore import units
 from liftcore.errors import InputError
 from liftcore.inputs import Field, InputSpec
+from liftcore.units import tidy
 
 UNIT_KEY = "unit_system"
 #: A unit system asked for by a scenario file or a share link, taken at the top of the next run.
@@ -33,17 +34,22 @@ UNIT_LABELS = {"SI": "SI (m, m/s, N, kW)", "marine": "Marine (kn, kN, kW, t)",
                "imperial": "Imperial (ft, mph, lbf, °F)"}
 #: How number boxes show their value: up to 7 significant digits, no padding zeros.
 NUMBER_FORMAT = "%.7g"
-#: A value is shown with the fewest digits that keep it within this relative error: 6.17 m/s
-#: for 12 kn (6.1733 m/s), 3.28 ft for 1 m. A tenth of a per cent is far below the uncertainty
-#: of any input here; the core keeps the exact value until the user changes it.
-DISPLAY_TOLERANCE = 1e-3
 
 
 # ----------------------------------------------------------------------------- unit switch
+#: Page style for a shared screen: the title close under the (transparent) top bar instead of
+#: 6 rem down, so a 720 px projector shows results, not white space.
+PAGE_CSS = """<style>
+[data-testid="stMainBlockContainer"] { padding-top: 2.5rem; }
+</style>"""
+
+
 def sidebar_chrome() -> None:
-    """The unit-system switch at the top of the sidebar, drawn by ``app.py`` before each page."""
+    """The unit-system switch at the top of the sidebar and the page style, drawn by ``app.py``
+    before each page."""
     from views import tools
 
+    st.html(PAGE_CSS)
     pending = st.session_state.pop(PENDING_UNITS, None)
     if pending in units.UNIT_SYSTEMS:  # set by a scenario or a share link before this run
         st.session_state[UNIT_KEY] = pending
@@ -68,19 +74,6 @@ def state_key(kind: str, key: str) -> str:
 
 def widget_key(kind: str, key: str, system: str) -> str:
     return f"w:{kind}:{key}:{system}"
-
-
-def tidy(x: float, tolerance: float = DISPLAY_TOLERANCE) -> float:
-    """The number with the fewest significant digits (1 to 7) within ``tolerance`` of ``x``
-    relatively: ``tidy(6.1733) == 6.17``, ``tidy(3.28084) == 3.28``, ``tidy(1013.25) == 1013``."""
-    x = float(x)
-    if x == 0 or not math.isfinite(x):
-        return x
-    for digits in range(1, 8):
-        y = float(f"{x:.{digits}g}")
-        if abs(y - x) <= tolerance * abs(x):
-            return y
-    return float(f"{x:.7g}")
 
 
 def display_value(f: Field, core_value, system: str):
@@ -218,7 +211,7 @@ def input_widget(spec: InputSpec, f: Field, container=None, label: str | None = 
     wkey = widget_key(spec.kind, f.key, system)
     skey = state_key(spec.kind, f.key)
     core = st.session_state.get(skey, f.default)
-    unit = f.unit(system)
+    unit = f.unit(system, st.session_state.get(state_key(spec.kind, "currency"), ""))
     text = label or (f"{f.label} [{unit}]" if unit else f.label)
     helptext = f.help or None
     if wkey not in st.session_state:

@@ -187,10 +187,7 @@ def table_in_units(df: pd.DataFrame, quantities: dict) -> pd.DataFrame:
 # ----------------------------------------------------------------------------- showing results
 def number_text(value: float, kind: str = "ratio", digits: int = 3) -> str:
     """A core value as text in the current unit system, with its unit."""
-    system = unit_system()
-    if kind in ("ratio", "money"):
-        return format_number(value, digits)
-    return f"{format_number(units.to_display(value, kind, system), digits)} {units.unit_label(kind, system)}"
+    return units.quantity_text(value, kind, unit_system(), digits)
 
 
 def show_headlines(result: StudyResult, keys=None, columns: int = 4) -> None:
@@ -202,6 +199,8 @@ def show_headlines(result: StudyResult, keys=None, columns: int = 4) -> None:
         for col, h in zip(cols, heads[start:start + columns]):
             with col:
                 st.metric(h.label, h.text(system), help=h.help or None)
+                if h.note(system):
+                    st.caption(h.note(system))
                 for w in result.warnings:
                     if w.subject == h.key:
                         warning_box(w, small=True)
@@ -218,7 +217,7 @@ def show_warnings(warnings, subjects=None, title: str | None = None) -> None:
 
 def warning_box(w: ModelWarning, small: bool = False) -> None:
     """One warning: a caption under a number (``small``) or a box of its own."""
-    text = w.text(unit_system()) if hasattr(w, "text") else w.message
+    text = w.text(unit_system())
     if small:
         st.caption(f"⚠ {text}")
     elif w.severity == "invalid":

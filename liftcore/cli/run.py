@@ -80,7 +80,7 @@ def execute(args, progress):
             lines.append(doc.note)
         lines += ["", text_table(rows)]
         if result.warnings:
-            lines += ["", "Warnings:"] + [f"  - {w.message}" for w in result.warnings]
+            lines += ["", "Warnings:"] + [f"  - {w.text(system)}" for w in result.warnings]
         lines += ["", "Cautions:"] + [f"  - {c}" for c in getattr(mod, "CAUTIONS", ())]
         text = "\n".join(lines)
         html = scenario_report(doc, result, system) if report_path else None
@@ -128,6 +128,6 @@ def _comparison(doc: Comparison, system: str, progress):
         lines.append(f"(differences in brackets are to {first.name})")
     for r in runs:
         for w in r.result.warnings:
-            lines.append(f"Warning ({r.name}): {w.message}")
+            lines.append(f"Warning ({r.name}): {w.text(system)}")
     lines += ["", "Cautions:"] + [f"  - {c}" for c in getattr(mod, "CAUTIONS", ())]
     return data, "\n".join(lines), runs

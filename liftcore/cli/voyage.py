@@ -21,7 +21,6 @@ from liftcore.cli import add_json_flag
 from liftcore.cli.common import add_air_options, air_from_args, require_one, text_table, validate_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError, check_number
-from liftcore.studies import format_number
 from liftcore.studies import voyage as study
 from liftcore.voyage import DASK_AUTO_ROWS, FUELS
 
@@ -85,6 +84,8 @@ def add_parser(sub):
     w.add_argument("--one-way", action="store_true",
                    help="--weibull: the course only (default: half the time on the reciprocal)")
     m = p.add_argument_group("money")
+    m.add_argument("--currency", choices=study.CURRENCIES, help="ISO 4217 code of every amount of money "
+                                                            "(default EUR; no exchange rates)")
     m.add_argument("--fuel-price", type=float, help="money per t of fuel (default 600)")
     m.add_argument("--carbon-price", type=float, help="money per t of CO2 (default 0)")
     m.add_argument("--installed-cost", type=float, help="money to buy and fit the rotors")
@@ -156,7 +157,8 @@ def values_from_args(args) -> tuple[dict, str]:
     for opt, key in (("sfoc_g_kwh", "sfoc_main_g_kwh"), ("generator_sfoc_g_kwh", "sfoc_generator_g_kwh"),
                      ("fuel_price", "fuel_price_per_t"), ("carbon_price", "carbon_price_per_t_co2"),
                      ("installed_cost", "installed_cost"), ("upkeep", "upkeep_per_year"),
-                     ("discount_rate_pct", "discount_rate_pct"), ("sweep_max_rotors", "sweep_max_rotors")):
+                     ("discount_rate_pct", "discount_rate_pct"), ("sweep_max_rotors", "sweep_max_rotors"),
+                     ("currency", "currency")):
         x = getattr(args, opt)
         if x is not None:
             v[key] = x
@@ -227,4 +229,4 @@ def execute(args, progress):
 def _text(h) -> str:
     if h.key == "payback" and not math.isfinite(h.value):
         return "never"
-    return h.text("SI") if h.quantity != "money" else format_number(h.value, 3)
+    return h.text("SI")

@@ -36,6 +36,7 @@ from dataclasses import dataclass, field as dc_field  # not `field`: that is a s
 from typing import Any, Callable
 
 from liftcore import units
+from liftcore.units import format_number  # noqa: F401  (re-exported: pages, report, CLI)
 from liftcore.validity import ModelWarning
 
 #: kind -> module name under liftcore.studies, in page order.
@@ -58,25 +59,34 @@ class Headline:
     quantity: str = "ratio"
     digits: int = 3
     help: str = ""
+    #: Below this size (in the display unit) the value is shown as 0 with ``resolution_note``:
+    #: round-off of a check that should give 0, or a share too small to show.
+    resolution: float = 0.0
+    resolution_note: str = "agrees with 0 to round-off"
+    #: Text after the number for quantities without a unit of their own (a currency: "EUR").
+    unit: str = ""
 
     def shown(self, system: str = "SI") -> tuple[float, str]:
         """(value, unit label) in ``system``."""
         if self.quantity in ("ratio", "money"):
-            return self.value, ""
-        return units.to_display(self.value, self.quantity, system), units.unit_label(self.quantity, system)
+            return self.value, self.unit
+        label = units.unit_label(self.quantity, system)
+        if self.quantity == "money_rate" and self.unit:
+            label = f"{self.unit} {label}"
+        return units.to_display(self.value, self.quantity, system), label
+
+    def below_resolution(self, system: str = "SI") -> bool:
+        v, _ = self.shown(system)
+        return v == v and v is not None and 0 < abs(v) < self.resolution
 
     def text(self, system: str = "SI") -> str:
         v, u = self.shown(system)
-        return f"{format_number(v, self.digits)}{(' ' + u) if u else ''}"
+        number = "0" if self.below_resolution(system) else format_number(v, self.digits)
+        return f"{number}{(' ' + u) if u else ''}"
 
-
-def format_number(v: float, digits: int = 3) -> str:
-    """Readable number: thousands separators for large values, ``digits`` significant otherwise."""
-    if v is None or v != v:
-        return "–"
-    if abs(v) >= 10 ** digits:
-        return f"{v:,.0f}"
-    return f"{v:.{digits}g}" if abs(v) >= 1e-3 or v == 0 else f"{v:.2e}"
+    def note(self, system: str = "SI") -> str:
+        """What to say under the number: ``resolution_note`` when it shows as 0, else nothing."""
+        return self.resolution_note if self.below_resolution(system) else ""
 
 
 #: Core-unit suffixes of column names, longest first (``surface_speed_m_s`` -> ``surface speed``).

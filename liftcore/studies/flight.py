@@ -269,7 +269,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                              values["dispersion_seed"], progress=progress)
     warnings = list(main.warnings)
     for w in air.warnings:
-        warnings.append(ModelWarning(w.code, w.message, "", w.severity))
+        warnings.append(replace(w, subject=""))
     if setup.density_kg_m3 == 0.0:
         warnings.append(ModelWarning("vacuum", "air density 0: the flight is in vacuum (no drag, lift or "
                                      "spin decay)", ""))

@@ -31,6 +31,10 @@ from liftcore.studies import Headline, StudyResult, quantity_table, table_in_uni
 from liftcore.validity import ModelWarning
 
 KIND = "voyage"
+#: Currencies offered for the money inputs (ISO 4217 codes); the first is the default.
+CURRENCIES = ("EUR", "USD", "GBP", "CNY", "JPY", "KRW", "SGD", "NOK", "DKK", "SEK", "CHF", "INR")
+#: Shares of the time at sea are shown to 0.01 % (about an hour a year); smaller ones show as 0.
+_SHARE = {"resolution": 0.01, "resolution_note": "less than 0.01 % of the time at sea"}
 TITLE = "Voyage savings"
 
 DATA_DIR = Path(__file__).resolve().parents[1] / "data"
@@ -84,9 +88,11 @@ VOYAGE_FIELDS = (
     choice("fuel", "Fuel", vy.FUELS, default="hfo", labels=tuple(vy.FUEL_LABELS[f] for f in vy.FUELS),
            section=_S, help="Burnt by both main engine and generators; sets the CO₂ factor "
                             "(IMO MEPC.364(79))."),
+    choice("currency", "Currency", CURRENCIES, default="EUR", section=_M,
+           help="The ISO 4217 code written beside every amount of money; all prices and costs "
+                "are in it. No exchange rates are applied."),
     number("fuel_price_per_t", "Fuel price", "money_rate", 600.0, 0.0, 1.0e5, section=_M,
-           step=10.0, help="Money per tonne of fuel, in any currency; all money on the page is "
-                           "in that currency."),
+           step=10.0, help="Money per tonne of fuel, in the currency above."),
     number("carbon_price_per_t_co2", "Carbon price per t of CO₂", "money_rate", 0.0, 0.0, 1.0e5,
            section=_M, step=5.0, help="Money per tonne of CO₂ emitted (an emissions scheme or "
                                       "levy); 0 if none."),
@@ -353,18 +359,18 @@ def _result(values: dict, d: VoyageDetail) -> StudyResult:
                  help=f"Fuel saved × {CO2_FACTOR_T_PER_T[fuel]} t CO₂ per t of "
                       f"{vy.FUEL_LABELS[fuel]} (IMO MEPC.364(79))."),
         Headline("annual_cost_saved", "Money saved per year", s.annual_cost_saved, "money",
-                 help="Fuel cost saved + carbon cost avoided − upkeep, in the currency of the prices."),
+                 help="Fuel cost saved + carbon cost avoided − upkeep.", unit=values["currency"]),
         Headline("payback", "Simple payback, years",
                  s.payback_years if math.isfinite(s.payback_years) else math.nan, "ratio", digits=3,
                  help=f"Installed cost / money saved per year (– when it never pays back). Discounted at "
                       f"{values['discount_rate_pct']:g} %: {_years(s.discounted_payback_years)}."),
         Headline("running_share", "Rotors running", 100.0 * s.running_share, "percent", digits=3,
-                 help="Share of time at sea the rotors spin (freely or at a limit)."),
+                 help="Share of time at sea the rotors spin (freely or at a limit).", **_SHARE),
         Headline("limited_share", "Running at a limit", 100.0 * s.limited_share, "percent", digits=3,
                  help="Share of time at sea the spin is held back by the rpm, motor-power, "
-                      "heeling-moment or spin-ratio limit."),
+                      "heeling-moment or spin-ratio limit.", **_SHARE),
         Headline("stopped_share", "Rotors stopped", 100.0 * s.stopped_share, "percent", digits=3,
-                 help="Share of time at sea no spin pays for itself (head winds, calms)."),
+                 help="Share of time at sea no spin pays for itself (head winds, calms).", **_SHARE),
         Headline("engine_power_share", "Share of main-engine power saved",
                  100.0 * s.engine_power_share if math.isfinite(s.engine_power_share) else math.nan,
                  "percent", digits=3, help="Mean engine power saved / the mean main-engine power entered."),
@@ -390,7 +396,7 @@ def _result(values: dict, d: VoyageDetail) -> StudyResult:
         "mean_ship_speed_kn": s.mean_ship_speed_m_s / KNOT_M_S,
         "wind_kind": d.wind_kind, "wind_source": d.wind_source, "conditions": d.conditions,
         "computed": d.engine, "hours_at_sea_source": d.hours_source,
-        "coefficient_set": d.coefficient_set["name"],
+        "coefficient_set": d.coefficient_set["name"], "currency": values["currency"],
         "warnings": [w.as_dict() for w in warnings],
     })
     return StudyResult(kind=KIND, inputs=dict(values), headlines=tuple(heads), warnings=tuple(warnings),
