@@ -169,6 +169,39 @@ BALLS: dict[str, BallSpec] = {
 
 BALL_KEYS = tuple(BALLS) + ("custom",)
 
+#: The launch inputs a typical launch sets (core units, keys of the flight study).
+LAUNCH_KEYS = ("speed_m_s", "elevation_deg", "azimuth_deg", "launch_height_m", "spin_rpm",
+               "spin_axis_deg")
+
+#: A typical launch of each ball, applied when the ball is chosen on the flight page: round
+#: numbers of the kind reported in the sports-science literature for a well-struck ball (common
+#: practice; not measurements of any player, and no source is claimed for the exact values).
+#: Spin-axis tilt: 0 backspin, 180 topspin, 90 sidespin curving right.
+TYPICAL_LAUNCH: dict[str, tuple[str, dict]] = {
+    "baseball": ("a well-hit fly ball", dict(speed_m_s=44.704, elevation_deg=28.0, azimuth_deg=0.0,
+                                             launch_height_m=1.0, spin_rpm=2000.0, spin_axis_deg=0.0)),
+    "softball": ("a hit fly ball", dict(speed_m_s=38.0, elevation_deg=28.0, azimuth_deg=0.0,
+                                        launch_height_m=1.0, spin_rpm=1500.0, spin_axis_deg=0.0)),
+    "golf": ("a drive", dict(speed_m_s=70.0, elevation_deg=11.0, azimuth_deg=0.0,
+                             launch_height_m=0.0, spin_rpm=2700.0, spin_axis_deg=0.0)),
+    "soccer": ("a curled free kick", dict(speed_m_s=25.0, elevation_deg=16.0, azimuth_deg=-5.0,
+                                          launch_height_m=0.11, spin_rpm=500.0, spin_axis_deg=90.0)),
+    "tennis": ("a topspin forehand", dict(speed_m_s=30.0, elevation_deg=6.0, azimuth_deg=0.0,
+                                          launch_height_m=1.0, spin_rpm=2500.0, spin_axis_deg=180.0)),
+    "cricket": ("a lofted drive", dict(speed_m_s=35.0, elevation_deg=30.0, azimuth_deg=0.0,
+                                       launch_height_m=0.8, spin_rpm=1500.0, spin_axis_deg=0.0)),
+    "volleyball": ("a jump serve", dict(speed_m_s=22.0, elevation_deg=2.0, azimuth_deg=0.0,
+                                        launch_height_m=3.0, spin_rpm=400.0, spin_axis_deg=180.0)),
+    "table_tennis": ("a topspin drive", dict(speed_m_s=15.0, elevation_deg=8.0, azimuth_deg=0.0,
+                                             launch_height_m=0.9, spin_rpm=3000.0, spin_axis_deg=180.0)),
+}
+
+
+def typical_launch(key: str) -> tuple[str, dict]:
+    """(what it is, launch inputs in core units) of the typical launch of ball ``key``, or
+    ``("", {})`` for a custom ball (common practice; see :data:`TYPICAL_LAUNCH`)."""
+    return TYPICAL_LAUNCH.get(key, ("", {}))
+
 
 def ball(key: str) -> BallSpec:
     """The ball for ``key``; unknown keys raise :class:`ValueError` listing the valid ones."""

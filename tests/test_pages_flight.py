@@ -9,6 +9,7 @@ from streamlit.testing.v1 import AppTest
 
 from liftcore import ballflight as bf
 from liftcore import units
+from liftcore.balls import LAUNCH_KEYS, typical_launch
 from liftcore.studies import flight as study
 from liftcore.studies import run_study
 
@@ -44,8 +45,9 @@ def test_changing_inputs_matches_the_core(page):
     page.number_input(key="w:flight:spin_rpm:SI").set_value(2800.0).run()
     page.number_input(key="w:flight:spin_axis_deg:SI").set_value(15.0).run()
     assert not page.exception, page.exception
-    values = {"ball": "golf", "speed_m_s": 65.0, "elevation_deg": 12.0, "spin_rpm": 2800.0,
-              "spin_axis_deg": 15.0, "dispersion_n": 0}
+    # choosing golf set its typical launch (a drive from the ground); four inputs changed since
+    values = {**typical_launch("golf")[1], "ball": "golf", "speed_m_s": 65.0, "elevation_deg": 12.0,
+              "spin_rpm": 2800.0, "spin_axis_deg": 15.0, "dispersion_n": 0}
     r = run_study("flight", values)
     for key, label in (("carry_m", "Carry"), ("lateral_m", "Drift to the side (right +)"),
                        ("peak_height_m", "Peak height")):
@@ -64,6 +66,31 @@ def test_changing_inputs_matches_the_core(page):
     assert not page.exception, page.exception
     d = bf.dispersion(setup, study.launch_from_values(clean), study.spread_sd(clean), 2000, 1)
     assert metric(page, "Carry P50") == f"{d.carry_percentiles_m[50]:.3g} m"
+
+
+def launch_of(at) -> dict:
+    return {k: at.session_state[f"flight:{k}"] for k in LAUNCH_KEYS if f"flight:{k}" in at.session_state}
+
+
+def test_a_new_ball_gets_its_typical_launch_and_the_old_one_stays_reachable():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.run()
+    at.number_input(key="w:flight:speed_m_s:SI").set_value(41.0).run()
+    mine = {**{k: study.INPUTS.field(k).default for k in LAUNCH_KEYS}, "speed_m_s": 41.0}
+    at.selectbox(key="w:flight:ball:SI").set_value("golf").run()
+    assert not at.exception, at.exception
+    what, drive = typical_launch("golf")
+    assert launch_of(at) == drive
+    assert at.number_input(key="w:flight:speed_m_s:SI").value == 70.0  # the box shows it too
+    assert any("common practice" in i.value and what in i.value for i in at.info)
+    r = run_study("flight", {**drive, "ball": "golf", "dispersion_n": 0})
+    assert metric(at, "Carry") == r.headline("carry_m").text("SI")
+    at.button(key="flight:back_to_my_launch").click().run()
+    assert launch_of(at) == mine and at.session_state["flight:ball"] == "golf"
+    # with "keep my launch" on, another ball keeps what is typed
+    at.toggle(key="flight:keep_launch").set_value(True).run()
+    at.selectbox(key="w:flight:ball:SI").set_value("tennis").run()
+    assert launch_of(at) == mine and at.session_state["flight:ball"] == "tennis"
 
 
 def test_imperial_units_and_second_flight():

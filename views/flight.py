@@ -12,12 +12,13 @@ import streamlit as st
 from liftcore import ballflight as bf
 from liftcore import figures_ball as fb
 from liftcore import units
-from liftcore.balls import BALLS, MODELS, ball_table
+from liftcore.balls import BALLS, LAUNCH_KEYS, MODELS, ball_table, typical_launch
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, integer, number
 from liftcore.studies import flight as study
 from liftcore.studies import format_number
-from views.inputs import input_widget, render_inputs, state_key, unit_system
+from views.inputs import (input_widget, render_inputs, set_values, state_key, unit_system,
+                          widget_changed)
 from views.results import (cached, general_warnings, number_text, run_for_page, show_figure, stop_for,
                            show_headlines, show_sources_and_cautions, show_warnings, study_figures,
                            study_tables, table_in_units)
@@ -115,9 +116,52 @@ def _overlay_extra(overlaid: list):
 
 
 # ----------------------------------------------------------------------------- sidebar
+LAUNCH_NOTE = "flight:launch_note"
+MY_LAUNCH = "flight:my_launch"
+
+
+def _launch_text(launch: dict) -> str:
+    return (f"{number_text(launch['speed_m_s'], 'ball_speed')} at {format_number(launch['elevation_deg'])}°, "
+            f"{number_text(launch['spin_rpm'], 'rotation', 4)}, spin axis {format_number(launch['spin_axis_deg'])}°, "
+            f"from {number_text(launch['launch_height_m'], 'length')}")
+
+
+def _back_to_my_launch() -> None:
+    mine = st.session_state.pop(MY_LAUNCH, None)
+    if mine:
+        set_values(SPEC, mine)
+    st.session_state.pop(LAUNCH_NOTE, None)
+
+
+def _typical_launch_on_ball_change(ball_changed: bool) -> None:
+    """A new ball gets its typical launch (common practice) unless "keep my launch" is on; the
+    launch typed before stays one click away."""
+    ball = st.session_state.get(state_key(KIND, "ball"), SPEC.field("ball").default)
+    what, launch = typical_launch(ball)
+    if ball_changed and launch and not st.session_state.get("flight:keep_launch", False):
+        mine = {k: st.session_state.get(state_key(KIND, k), SPEC.field(k).default) for k in LAUNCH_KEYS}
+        if mine != launch:
+            st.session_state[MY_LAUNCH] = mine
+            set_values(SPEC, launch)
+            st.session_state[LAUNCH_NOTE] = (f"Launch set to {what} with this ball (typical values, common "
+                                             f"practice): {_launch_text(launch)}.")
+    elif ball_changed:
+        st.session_state.pop(LAUNCH_NOTE, None)
+    note = st.session_state.get(LAUNCH_NOTE)
+    if note:
+        st.info(note, icon=":material/sports:")
+        if st.session_state.get(MY_LAUNCH):
+            st.button("Back to my launch", key="flight:back_to_my_launch", on_click=_back_to_my_launch,
+                      icon=":material/undo:", help=_launch_text(st.session_state[MY_LAUNCH]))
+    st.toggle("Keep my launch when I change the ball", key="flight:keep_launch",
+              help="Off: choosing a ball sets its typical launch (speed, elevation, spin).")
+
+
 def _sidebar() -> dict:
+    ball_changed = widget_changed(SPEC, "ball")  # asked before anything syncs the inputs
     with st.sidebar:
         input_widget(SPEC, SPEC.field("ball"))
+        _typical_launch_on_ball_change(ball_changed)
         input_widget(SPEC, SPEC.field("coefficient_model"))
     return render_inputs(SPEC, skip=("ball", "coefficient_model") + study.SPREAD_KEYS)
 

@@ -103,11 +103,13 @@ def current_values(spec: InputSpec) -> dict:
 
 
 def set_values(spec: InputSpec, values: dict) -> None:
-    """Replace the session's inputs (a scenario file, a link, a reset); widgets are re-seeded."""
+    """Replace the session's inputs named in ``values`` (a scenario file, a link, a reset, a
+    preset); their widgets are re-seeded."""
     errors = input_errors(spec.kind)
     for f in spec.fields:
-        if f.key in values:
-            st.session_state[state_key(spec.kind, f.key)] = values[f.key]
+        if f.key not in values:
+            continue
+        st.session_state[state_key(spec.kind, f.key)] = values[f.key]
         for system in units.UNIT_SYSTEMS:
             wkey = widget_key(spec.kind, f.key, system)
             for k in (wkey, _step_key(wkey), _last_key(wkey)):
@@ -147,6 +149,13 @@ def sync_field(spec: InputSpec, f: Field, system: str | None = None) -> None:
 
 
 _UNSEEN = object()
+
+
+def widget_changed(spec: InputSpec, key: str) -> bool:
+    """Whether the user changed the widget of input ``key`` since the last run (ask before the
+    inputs of ``spec`` are synced, i.e. before anything of the page is drawn)."""
+    wkey = widget_key(spec.kind, key, unit_system())
+    return wkey in st.session_state and st.session_state.get(_last_key(wkey), _UNSEEN) != st.session_state[wkey]
 
 
 def sync(spec: InputSpec) -> None:
