@@ -46,7 +46,11 @@ def test_page_renders_with_title_headlines_charts_and_cautions(page):
     for label in ("Net power gain", "Thrust along the heading", "Spin power (shaft)", "Heeling moment",
                   "Side force", "Apparent wind angle", "Spin ratio", "Lift coefficient", "Drag coefficient"):
         assert label in labels
-    assert len(page.get("plotly_chart")) == 5
+    assert len(page.get("plotly_chart")) == 3  # the open tab's charts only (the coefficient sets)
+    for tab, charts in (("Around the compass", 1), ("Along the rotor", 1), ("Coefficient sets", 3)):
+        page.session_state["rotor_tab"] = tab
+        page.run()
+        assert not page.exception and len(page.get("plotly_chart")) == charts, tab
     cautions = " ".join(i.value for i in page.info)
     assert "naval architect" in cautions and "gusts" in cautions
     # the default page is the study's default case, as the core computes it
@@ -138,6 +142,7 @@ def test_imperial_tables_and_charts_are_converted(page):
     import json
 
     page.session_state["unit_system"] = "imperial"
+    page.session_state["rotor_tab"] = "Tables and downloads"
     page.run()
     assert not page.exception
     result = study.run(study.INPUTS.validate({}))
@@ -152,6 +157,8 @@ def test_imperial_tables_and_charts_are_converted(page):
     assert op.loc["heeling moment", "unit"] == "kip·ft"
     assert op.loc["heeling moment", "value"] == pytest.approx(
         units.to_display(result.detail.operation.at(())["heeling_moment_nm"], "moment", "imperial"))
+    page.session_state["rotor_tab"] = "Along the rotor"
+    page.run()
     specs = [json.loads(c.proto.spec) for c in page.get("plotly_chart")]
     span_chart = next(s for s in specs if "rotor height" in s["layout"]["title"]["text"])
     assert span_chart["layout"]["yaxis"]["title"]["text"] == "Height above the waterline [ft]"

@@ -32,8 +32,11 @@ def test_page_renders_the_demo_with_every_chart():
     assert not at.exception
     assert at.title[0].value == "Voyage savings"
     assert shown(at) == expected({})
-    # rose, heat map, operating time, fuel / payback options
-    assert len(at.get("plotly_chart")) == 5
+    # rose, heat map, operating time; the design options only in their own tab
+    assert len(at.get("plotly_chart")) == 3
+    at.session_state["voyage_tab"] = "Design options: which size, how many?"
+    at.run()
+    assert not at.exception and len(at.get("plotly_chart")) == 2  # fuel and payback by option
     assert any("invented demo" in w.value for w in at.warning)
 
 
@@ -86,7 +89,7 @@ def test_imperial_tables_are_converted_with_the_unit_in_the_column_name():
 
     from liftcore import units
 
-    at = page(**{"unit_system": "imperial", "voyage:sweep": False}).run()
+    at = page(**{"unit_system": "imperial", "voyage:sweep": False, "voyage_tab": "Tables to download"}).run()
     assert not at.exception
     r = run_study("voyage", {"sweep": False})
     tables = {tuple(d.value.columns): d.value for d in at.dataframe}

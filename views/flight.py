@@ -187,7 +187,6 @@ def _flight_tab(result, values):
         show_figure(figs["Side view"], key="fig_side")
     with c2:
         show_figure(figs["Top view"], key="fig_top")
-    show_figure(figs["Flight path in 3-D"], key="fig_3d")
     c1, c2 = st.columns(2)
     with c1:
         show_figure(figs["Along the flight"], key="fig_along")
@@ -227,6 +226,12 @@ def _flight_tab(result, values):
                        "text/csv", key="flight_download",
                        help="Time, position, speed, spin and coefficients along the flight, in the "
                             "units chosen (the unit is in each column name)")
+
+
+def _flight_3d_tab(result):
+    st.caption("The path in three dimensions (drag to turn it). Its own tab: a 3-D chart takes a "
+               "while to draw on a computer without graphics acceleration.")
+    show_figure(study_figures(study, result)["Flight path in 3-D"], key="fig_3d")
 
 
 def _sweep_tab(values):
@@ -441,10 +446,12 @@ if problem:
     stop_for(problem)
 
 # Tabs track which one is open (so a button inside a tab keeps it open) and only the open one runs.
-TABS = ("Flight", "Launch sweep", "Launch spread", "Fit to tracked flights", "Balls and models")
+TABS = ("Flight", "Flight in 3-D", "Launch sweep", "Launch spread", "Fit to tracked flights",
+        "Balls and models")
 tabs = st.tabs(TABS, key="flight_tab", on_change="rerun")
-for tab, draw in zip(tabs, (lambda: _flight_tab(result, values), lambda: _sweep_tab(main_values),
-                            lambda: _spread_tab(values), lambda: _fit_tab(main_values), _balls_tab)):
+for tab, draw in zip(tabs, (lambda: _flight_tab(result, values), lambda: _flight_3d_tab(result),
+                            lambda: _sweep_tab(main_values), lambda: _spread_tab(values),
+                            lambda: _fit_tab(main_values), _balls_tab)):
     if tab.open is not False:
         with tab:
             draw()

@@ -23,7 +23,7 @@ import pandas as pd
 import streamlit as st
 
 from liftcore import studies, units
-from liftcore.studies import StudyResult, format_number, run_study
+from liftcore.studies import Charts, StudyResult, format_number, run_study
 from liftcore.validity import ModelWarning
 from liftcore.errors import InputError
 from views.inputs import UNIT_LABELS, input_errors, stop_on_input_errors, unit_system
@@ -159,16 +159,18 @@ def cached_result(kind: str, values: dict, extra=None) -> StudyResult:
                   lambda progress: run_study(kind, values, extra=extra))
 
 
-def study_figures(mod, result: StudyResult) -> dict:
-    """The study's charts (title -> figure) in the current unit system, through its
-    ``figures_in_units`` hook when it has one; made once per result and unit system."""
+def study_figures(mod, result: StudyResult) -> Charts:
+    """The study's charts in the current unit system (its ``figures_in_units`` hook when it has
+    one), looked up by title; each chart is drawn only when a page shows it, once per result
+    and unit system."""
     make = getattr(mod, "figures_in_units", None)
     system = unit_system()
     if not callable(make):
-        return dict(result.figures)
-    # keyed by the result object itself: the entry keeps it alive, so its id is never reused
-    return dict(cached(("figures", id(result), system),
-                       lambda progress: (result, make(result, system)))[1])
+        charts = result.figures
+    else:
+        # keyed by the result object itself: the entry keeps it alive, so its id is never reused
+        charts = cached(("figures", id(result), system), lambda progress: (result, make(result, system)))[1]
+    return charts if isinstance(charts, Charts) else Charts(charts)
 
 
 def study_tables(mod, result: StudyResult) -> dict:

@@ -116,9 +116,9 @@ results.show_headlines(result, keys=("apparent_wind_speed_m_s", "apparent_wind_a
 results.show_warnings(results.general_warnings(result), title="Also note")
 
 figs = results.study_figures(study, result)
-tab_sets, tab_polar, tab_span, tab_tables = st.tabs(
-    ["Coefficient sets", "Around the compass", "Along the rotor", "Tables and downloads"])
-with tab_sets:
+
+
+def _sets_tab():
     st.markdown("Every available coefficient set, corrected to this rotor where the switch under "
                 "*Coefficient set* says so. The shaded band is the spread between the sets with "
                 "data (theory excluded); the diamond is the operating point.")
@@ -130,17 +130,23 @@ with tab_sets:
     st.dataframe(_compare_table(result, system), hide_index=True, width="stretch")
     st.markdown("**Where each set comes from**")
     st.table(_sets_provenance(result).set_index("Coefficient set"))  # wraps long sources
-with tab_polar:
+
+
+def _polar_tab():
     results.show_figure(figs["Thrust and net power gain around the compass"], key="rotor:fig:polar")
     st.caption("True wind angle off the bow (starboard to the right), at the current true wind "
                "and ship speed, with the same spin rule as above. Inside the dotted circle the "
                "value is negative.")
-with tab_span:
+
+
+def _span_tab():
     results.show_figure(figs["Wind along the rotor height"], key="rotor:fig:span")
     st.caption(f"The true wind grows with height ({d.setup.wind_profile} profile) while the ship's "
                f"own wind does not, so each of the {d.setup.strips} strips sees its own apparent "
                "wind and spin ratio at the one rotor speed.")
-with tab_tables:
+
+
+def _tables_tab():
     st.caption(results.units_caption())
     shown_tables = results.study_tables(study, result)
     for name, label in (("operating_point", "Operating point"), ("coefficient_sets", "Coefficient sets"),
@@ -154,5 +160,14 @@ with tab_tables:
             st.dataframe(df, hide_index=True, width="stretch", height=min(240, 40 + 35 * len(df)))
         st.download_button(f"Download {label.lower()} as CSV", df.to_csv(index=False),
                            file_name=f"rotor_{name}.csv", mime="text/csv", key=f"rotor:dl:{name}")
+
+
+# Only the open tab is drawn (and its charts made): the page answers faster.
+TABS = {"Coefficient sets": _sets_tab, "Around the compass": _polar_tab,
+        "Along the rotor": _span_tab, "Tables and downloads": _tables_tab}
+for tab, draw in zip(st.tabs(list(TABS), key="rotor_tab", on_change="rerun"), TABS.values()):
+    if tab.open is not False:
+        with tab:
+            draw()
 
 results.show_sources_and_cautions(study)

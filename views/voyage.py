@@ -69,7 +69,9 @@ if uploaded is not None:
     except InputError as exc:
         problem = str(exc)
 if problem is None:
-    result, problem = run_for_page(KIND, values, extra=extra, label="Computing the voyage")
+    # the page's main run leaves out the design options; their tab runs them when it is open
+    result, problem = run_for_page(KIND, dict(values, sweep=False), extra=extra,
+                                   label="Computing the voyage")
 page_tools(study, extra=extra, problem=problem)
 if problem:
     stop_for(problem, "Your inputs are kept; fix the file or the field named above.")
@@ -83,47 +85,70 @@ show_headlines(result, keys=("mean_net_power", "annual_fuel_saved", "annual_co2_
 show_headlines(result, keys=("payback", "annual_energy_saved", "mean_thrust", "engine_power_share"))
 show_headlines(result, keys=("running_share", "limited_share", "stopped_share", "peak_heeling_moment"))
 
-figs = study_figures(study, result)
-c1, c2 = st.columns(2)
+c1, c2 = st.columns([1, 3])
 with c1:
-    show_figure(figs["Wind rose of the input"], key="voyage:rose")
+    show_headlines(result, keys=("imo_effective_power",), columns=1)
 with c2:
-    show_figure(figs["Net gain over wind angle and speed"], key="voyage:heat")
-show_figure(figs["Operating time"], key="voyage:states")
-if "By month" in figs:
-    c1, c2 = st.columns(2)
-    with c1:
-        show_figure(figs["By month"], key="voyage:months")
-    if "By leg" in figs:
-        with c2:
-            show_figure(figs["By leg"], key="voyage:legs")
-
-if d.sweep is not None:
-    st.subheader("Design options: which size, how many?")
-    st.caption(d.sweep_note)
-    c1, c2 = st.columns(2)
-    with c1:
-        show_figure(figs["Design options: fuel"], key="voyage:sweep_fuel")
-    with c2:
-        if "Design options: payback" in figs:
-            show_figure(figs["Design options: payback"], key="voyage:sweep_payback")
-        elif "Design options: money" in figs:
-            show_figure(figs["Design options: money"], key="voyage:sweep_money")
-
-st.subheader("IMO wind-propulsion term")
-show_headlines(result, keys=("imo_effective_power",), columns=3)
-st.caption("(0.5144 V_ref / η_T) Σ F·W − Σ P·W from MEPC.1/Circ.896, with F the thrust and P the "
-           "electric power of the best spin at V_ref in each wind condition and W this trade's wind "
-           "probabilities (not the IMO global matrix unless you upload it as a joint table).")
-
+    st.markdown("**IMO wind-propulsion term**")
+    st.caption("(0.5144 V_ref / η_T) Σ F·W − Σ P·W from MEPC.1/Circ.896, with F the thrust and P the "
+               "electric power of the best spin at V_ref in each wind condition and W this trade's wind "
+               "probabilities (not the IMO global matrix unless you upload it as a joint table).")
+figs = study_figures(study, result)
 show_warnings(general_warnings(result), title="About the model and the data")
 
-with st.expander("Tables to download", expanded=False):
+
+def _gain_tab():
+    c1, c2 = st.columns(2)
+    with c1:
+        show_figure(figs["Wind rose of the input"], key="voyage:rose")
+    with c2:
+        show_figure(figs["Net gain over wind angle and speed"], key="voyage:heat")
+    show_figure(figs["Operating time"], key="voyage:states")
+    if "By month" in figs:
+        c1, c2 = st.columns(2)
+        with c1:
+            show_figure(figs["By month"], key="voyage:months")
+        if "By leg" in figs:
+            with c2:
+                show_figure(figs["By leg"], key="voyage:legs")
+
+
+def _design_tab():
+    if not values["sweep"]:
+        st.info("Switch on *Compare rotor sizes and counts* under Design options in the sidebar.",
+                icon=":material/tune:")
+        return
+    full, trouble = run_for_page(KIND, values, extra=extra, label="Comparing rotor sizes and counts")
+    if trouble:
+        st.error(trouble, icon=":material/error:")
+        return
+    sfigs = study_figures(study, full)
+    st.caption(full.detail.sweep_note)
+    c1, c2 = st.columns(2)
+    with c1:
+        show_figure(sfigs["Design options: fuel"], key="voyage:sweep_fuel")
+    with c2:
+        if "Design options: payback" in sfigs:
+            show_figure(sfigs["Design options: payback"], key="voyage:sweep_payback")
+        elif "Design options: money" in sfigs:
+            show_figure(sfigs["Design options: money"], key="voyage:sweep_money")
+
+
+def _tables_tab():
     st.caption(units_caption())
     for name, table in study_tables(study, result).items():
         st.markdown(f"**{name.replace('_', ' ').capitalize()}**")
         st.dataframe(table, hide_index=True, height=min(300, 40 + 35 * len(table)))
         st.download_button(f"Download {name}.csv", table.to_csv(index=False).encode(),
                            file_name=f"voyage_{name}.csv", mime="text/csv", key=f"voyage:csv:{name}")
+
+
+# Only the open tab is drawn (and computed): the page answers faster.
+TABS = {"Where the gain comes from": _gain_tab, "Design options: which size, how many?": _design_tab,
+        "Tables to download": _tables_tab}
+for tab, draw in zip(st.tabs(list(TABS), key="voyage_tab", on_change="rerun"), TABS.values()):
+    if tab.open is not False:
+        with tab:
+            draw()
 
 show_sources_and_cautions(study)

@@ -32,6 +32,8 @@ The dashboard pages, ``python -m liftcore run``, the comparison page and the rep
 from __future__ import annotations
 
 import importlib
+import threading
+from collections.abc import Sequence
 from dataclasses import dataclass, field as dc_field  # not `field`: that is a study kind
 from typing import Any, Callable
 
@@ -134,11 +136,61 @@ def quantity_table(rows, system: str = "SI"):
     return pd.DataFrame(out, columns=["quantity", "value", "unit"])
 
 
+class Charts(Sequence):
+    """A study's charts: (title, figure) pairs, each drawn only when first looked at.
+
+    Built from (title, figure or zero-argument function) pairs. Iterating gives every pair
+    (drawing them all); ``charts[title]`` or :meth:`figure` draws just that one, so a page shows
+    one tab without paying for the charts of the others. ``title in charts`` asks by title.
+    """
+
+    def __init__(self, items=()):
+        self._items = [(str(t), f) for t, f in items]
+        self._lock = threading.Lock()
+
+    def _draw(self, i: int):
+        title, fig = self._items[i]
+        if callable(fig):
+            with self._lock:
+                title, fig = self._items[i]
+                if callable(fig):
+                    fig = fig()
+                    self._items[i] = (title, fig)
+        return title, fig
+
+    def __len__(self) -> int:
+        return len(self._items)
+
+    def __getitem__(self, i):
+        if isinstance(i, str):
+            return self.figure(i)
+        if isinstance(i, slice):
+            return Charts(self._draw(j) for j in range(*i.indices(len(self))))
+        return self._draw(i if i >= 0 else len(self) + i)
+
+    def __contains__(self, title) -> bool:
+        return title in self.titles()
+
+    def titles(self) -> tuple[str, ...]:
+        return tuple(t for t, _ in self._items)
+
+    def figure(self, title: str):
+        """The chart called ``title`` (drawn now if it was not yet); ``KeyError`` if none."""
+        for i, (t, _) in enumerate(self._items):
+            if t == title:
+                return self._draw(i)[1]
+        raise KeyError(f"no chart {title!r}; have {', '.join(self.titles())}")
+
+    def get(self, title: str, default=None):
+        return self.figure(title) if title in self else default
+
+
 @dataclass(frozen=True)
 class StudyResult:
     """What one study run returns to every consumer (page, CLI, comparison, report).
 
-    ``figures`` are (title, plotly Figure) pairs, each answering one question.
+    ``figures`` are (title, plotly Figure) pairs, each answering one question (a :class:`Charts`
+    draws each only when it is looked at).
     ``tables`` are named pandas DataFrames (units in column names) for CSV export.
     ``detail`` is the topic module's own result dataclass for pages that need more.
     """

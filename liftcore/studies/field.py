@@ -17,7 +17,7 @@ from liftcore import units
 from liftcore.air import air_inputs, air_state_from_inputs
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, integer, number
-from liftcore.studies import Headline, StudyResult, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, table_in_units
 from liftcore.validity import mach_warning, merge
 
 KIND = "field"
@@ -84,10 +84,10 @@ class FieldDetail:
 
 def field_figures(field, res, system: str = "SI") -> tuple:
     """(title, figure) pairs of the study in ``system``'s display units."""
-    return (
-        ("Velocity field and loops", ff.field_map_figure(field, res, system=system)),
-        ("Circulation against loop size", ff.circulation_figure(res, system)),
-    )
+    return Charts((
+        ("Velocity field and loops", lambda: ff.field_map_figure(field, res, system=system)),
+        ("Circulation against loop size", lambda: ff.circulation_figure(res, system)),
+    ))
 
 
 def figures_in_units(result: StudyResult, system: str) -> tuple:

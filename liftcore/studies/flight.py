@@ -17,7 +17,7 @@ from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
 from liftcore.inputs import InputSpec, choice, flag, integer, number
-from liftcore.studies import Headline, StudyResult, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, table_in_units
 from liftcore.validity import ModelWarning, merge
 
 KIND = "flight"
@@ -316,13 +316,13 @@ DISPLAY_NAMES = {"x_m": "downrange_m", "lateral_m": "drift_right_m", "z_m": "hei
 
 def flight_figures(flights, disp=None, system: str = "SI") -> tuple:
     """(title, figure) pairs of the study in ``system``'s display units."""
-    figs = (("Flight path in 3-D", fb.trajectory_3d(flights, system)),
-            ("Side view", fb.side_view(flights, system)),
-            ("Top view", fb.top_view(flights, system)),
-            ("Along the flight", fb.along_flight(flights, system)))
+    figs = [("Flight path in 3-D", lambda: fb.trajectory_3d(flights, system)),
+            ("Side view", lambda: fb.side_view(flights, system)),
+            ("Top view", lambda: fb.top_view(flights, system)),
+            ("Along the flight", lambda: fb.along_flight(flights, system))]
     if disp is not None:
-        figs += (("Landing spread", fb.dispersion_figure(disp, system)),)
-    return figs
+        figs.append(("Landing spread", lambda: fb.dispersion_figure(disp, system)))
+    return Charts(figs)
 
 
 def display_flights(result: StudyResult, system: str) -> tuple:

@@ -10,7 +10,7 @@ from liftcore import potential as pot
 from liftcore import units
 from liftcore.air import air_inputs, air_state_from_inputs
 from liftcore.inputs import InputSpec, choice, number
-from liftcore.studies import Headline, StudyResult, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, table_in_units
 from liftcore.validity import merge
 
 KIND = "flow"
@@ -90,12 +90,12 @@ PRESSURE_DIFFERENCE_UNITS = {"SI": ("Pa", "Pa"), "marine": ("Pa", "Pa"), "imperi
 def flow_figures(res: pot.IdealCylinderResult, system: str = "SI") -> tuple:
     """(title, figure) pairs of the study; positions are in body radii and Cp and CL have no
     unit, so only the named radius, stream speed and point positions follow ``system``."""
-    return (
-        ("Streamlines", ff.streamlines_figure(res, system=system)),
-        ("Surface pressure", ff.surface_pressure_figure(res)),
-        ("Pressure integral check", ff.pressure_check_figure(res)),
-        ("Ideal lift coefficient", ff.ideal_lift_figure(res)),
-    )
+    return Charts((
+        ("Streamlines", lambda: ff.streamlines_figure(res, system=system)),
+        ("Surface pressure", lambda: ff.surface_pressure_figure(res)),
+        ("Pressure integral check", lambda: ff.pressure_check_figure(res)),
+        ("Ideal lift coefficient", lambda: ff.ideal_lift_figure(res)),
+    ))
 
 
 def figures_in_units(result: StudyResult, system: str) -> tuple:

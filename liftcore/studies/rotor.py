@@ -20,7 +20,7 @@ from liftcore.air import AirState, air_inputs, air_state_from_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, number
-from liftcore.studies import Headline, StudyResult, column_label, quantity_table, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, column_label, quantity_table, table_in_units
 from liftcore.validity import merge
 
 KIND = "rotor"
@@ -262,7 +262,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                               comparisons=tuple(comparisons), span=span)
     warnings = merge(op.warnings, air.warnings)
     prog(0.85, "Charts")
-    figures = figures_rotor.all_figures(detail, "SI")
+    figures = rotor_charts(detail, "SI")
     tables = {"operating_point": operating_table(detail), "coefficient_sets": sets_table(detail),
               "wind_angle_sweep": sweep_table(detail), "along_the_rotor": span_table(detail)}
     prog(1.0, "Done")
@@ -273,7 +273,19 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
 # ----------------------------------------------------------------------------- display units
 def figures_in_units(result: StudyResult, system: str) -> tuple:
     """The charts of ``result`` with forces, powers, speeds and heights in ``system``'s units."""
-    return result.figures if system == "SI" else figures_rotor.all_figures(result.detail, system)
+    return result.figures if system == "SI" else rotor_charts(result.detail, system)
+
+
+def rotor_charts(detail, system: str = "SI") -> Charts:
+    """The rotor study's charts in ``system``, each drawn when first looked at."""
+    f = figures_rotor
+    return Charts((
+        ("Lift coefficient against spin ratio", lambda: f.coefficient_figure(detail, "lift", system)),
+        ("Drag coefficient against spin ratio", lambda: f.coefficient_figure(detail, "drag", system)),
+        ("Spin-power coefficient against spin ratio", lambda: f.coefficient_figure(detail, "power", system)),
+        ("Thrust and net power gain around the compass", lambda: f.polar_figure(detail, system)),
+        ("Wind along the rotor height", lambda: f.span_figure(detail, system)),
+    ))
 
 
 #: Plain words and quantity kind of every core-unit key of the operating point (rotor-set totals).

@@ -27,7 +27,7 @@ from liftcore.air import air_inputs
 from liftcore.constants import CO2_FACTOR_T_PER_T, KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number, text
-from liftcore.studies import Headline, StudyResult, quantity_table, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, quantity_table, table_in_units
 from liftcore.validity import ModelWarning
 
 KIND = "voyage"
@@ -400,35 +400,35 @@ def _result(values: dict, d: VoyageDetail) -> StudyResult:
         "warnings": [w.as_dict() for w in warnings],
     })
     return StudyResult(kind=KIND, inputs=dict(values), headlines=tuple(heads), warnings=tuple(warnings),
-                       figures=tuple(figures(d, values)), tables=tables(d), detail=d, json=j)
+                       figures=figures(d, values), tables=tables(d), detail=d, json=j)
 
 
 def _years(y: float) -> str:
     return "never" if not math.isfinite(y) else f"{y:.1f} years"
 
 
-def figures(d: VoyageDetail, values: dict, system: str = "SI") -> list:
-    """(title, figure) pairs in page order."""
+def figures(d: VoyageDetail, values: dict, system: str = "SI") -> Charts:
+    """(title, figure) pairs in page order, each drawn when first looked at."""
     t = d.tally
-    out = [("Wind rose of the input", fv.wind_rose(t, system)),
-           ("Net gain over wind angle and speed", fv.gain_heat_map(t, system)),
-           ("Operating time", fv.operating_time(d.summary))]
+    out = [("Wind rose of the input", lambda: fv.wind_rose(t, system)),
+           ("Net gain over wind angle and speed", lambda: fv.gain_heat_map(t, system)),
+           ("Operating time", lambda: fv.operating_time(d.summary))]
     if d.wind_kind == "series":
-        out.append(("By month", fv.month_bars(vy.month_table(t, d.summary.hours_at_sea_per_year), system)))
+        out.append(("By month", lambda: fv.month_bars(vy.month_table(t, d.summary.hours_at_sea_per_year), system)))
         legs = vy.leg_table(t, d.summary.hours_at_sea_per_year)
         if len(legs):
-            out.append(("By leg", fv.leg_bars(legs, system)))
+            out.append(("By leg", lambda: fv.leg_bars(legs, system)))
     if d.sweep is not None:
         entered = {"diameter_m": values["diameter_m"], "height_m": values["height_m"],
                    "rotors": values["rotor_count"]}
-        out.append(("Design options: fuel", fv.sweep_savings(d.sweep, entered, system)))
+        out.append(("Design options: fuel", lambda: fv.sweep_savings(d.sweep, entered, system)))
         if values["fuel_price_per_t"] > 0 or values["carbon_price_per_t_co2"] > 0:
-            out.append(("Design options: money", fv.sweep_savings(
+            out.append(("Design options: money", lambda: fv.sweep_savings(
                 d.sweep, entered, system, "annual_cost_saved", "money",
                 "Money saved per year by rotor size and count")))
         if values["installed_cost"] > 0:
-            out.append(("Design options: payback", fv.sweep_payback(d.sweep, entered, system)))
-    return out
+            out.append(("Design options: payback", lambda: fv.sweep_payback(d.sweep, entered, system)))
+    return Charts(out)
 
 
 def tables(d: VoyageDetail) -> dict:
@@ -447,7 +447,7 @@ def tables(d: VoyageDetail) -> dict:
 # ----------------------------------------------------------------------------- display units
 def figures_in_units(result: StudyResult, system: str) -> tuple:
     """The charts of ``result`` with powers, speeds and masses in ``system``'s units."""
-    return result.figures if system == "SI" else tuple(figures(result.detail, result.inputs, system))
+    return result.figures if system == "SI" else figures(result.detail, result.inputs, system)
 
 
 #: Plain words and quantity kind of the summary's core-unit fields (shares are shown in %).
