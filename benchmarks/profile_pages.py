@@ -265,9 +265,14 @@ DRAW_JS = """async ([specs, width]) => {
 }"""
 
 
-def draw_times(kind: str, width: int = 700) -> list:
-    """(title, kB, parse ms, draw ms, canvases) of each chart of the study's default result, drawn
-    by plotly.js (the copy shipped with the plotly package: no download) in Debian's Chromium."""
+#: Chart widths on the pages at 1600 x 1000 with the sidebar open: half and full main area. [px]
+WIDTHS = (550, 1110)
+
+
+def draw_times(kind: str) -> list:
+    """(title, kB, parse ms, {width: draw ms}, canvases) of each chart of the study's default
+    result, drawn by plotly.js (the copy shipped with the plotly package: no download) in
+    Debian's Chromium at each of ``WIDTHS``."""
     import plotly
     from playwright.sync_api import sync_playwright
 
@@ -290,14 +295,15 @@ def draw_times(kind: str, width: int = 700) -> list:
             try:
                 page = browser.new_page(viewport={"width": 1600, "height": 1000})
                 page.goto(html.as_uri())
-                page.evaluate(DRAW_JS, [specs[:1], width])  # warm-up: plotly.js's first draw
-                times = page.evaluate(DRAW_JS, [specs, width])
+                page.evaluate(DRAW_JS, [specs[:1], WIDTHS[0]])  # warm-up: plotly.js's first draw
+                times = {w: page.evaluate(DRAW_JS, [specs, w]) for w in WIDTHS}
             finally:
                 browser.close()
     out = []
-    for (title, _), spec, t in zip(figs, specs, times):
+    for i, ((title, _), spec) in enumerate(zip(figs, specs)):
+        t = times[WIDTHS[0]][i]
         out.append((title, len(spec.encode()) / 1e3, statistics.median(x[0] for x in t),
-                    statistics.median(x[1] for x in t), t[0][2]))
+                    {w: statistics.median(x[1] for x in times[w][i]) for w in WIDTHS}, t[0][2]))
     return out
 
 
@@ -358,11 +364,11 @@ def print_draw_times(kind: str) -> None:
         print(f"  (no {kind} charts drawn: Chromium missing)")
         return
     print(f"  browser: each chart of the default {kind} result drawn anew by plotly.js "
-          "(median of 3; JSON.parse, then newPlot to the next frame):")
+          f"(median of 3; JSON.parse, then newPlot to the next frame; {' and '.join(map(str, WIDTHS))} px wide):")
     for title, kb, parse, draw, gl in rows:
-        print(f"    {parse:6.1f} ms parse {draw:7.1f} ms draw  {kb:7.1f} kB"
-              f"{'  WebGL canvas' if gl else ''}  {title}")
-    print(f"    total {sum(r[2] + r[3] for r in rows):.0f} ms")
+        print(f"    {parse:6.1f} ms parse  " + "  ".join(f"{draw[w]:7.1f} ms draw at {w}" for w in WIDTHS)
+              + f"  {kb:7.1f} kB{'  WebGL canvas' if gl else ''}  {title}")
+    print("    total " + ", ".join(f"{sum(r[2] + r[3][w] for r in rows):.0f} ms at {w} px" for w in WIDTHS))
     print()
 
 
