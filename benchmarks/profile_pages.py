@@ -47,6 +47,14 @@ _PLUMBING = ("scriptrunner/", "metrics_util.py", "runtime/state/", "exec_code.py
              "~", "threading.py")
 
 
+#: The order the parts are printed in (a part indented under the one it is inside).
+_ORDER = ("study run (run_study)", "figures_in_units", "figure builders (liftcore.figures_*)",
+          "  of which base_figure (house style)", "  plotly figure API (incl. base_figure)",
+          "st.plotly_chart", "  of which plotly.io.to_json", "st.dataframe", "sidebar: render_inputs",
+          "  input_widget", "page_tools (save/share/keep)", "show_headlines",
+          "unit conversions (liftcore.units)")
+
+
 class Hooks:
     """Wall-clock accumulators on named functions and a tally of the forward messages."""
 
@@ -117,7 +125,7 @@ class Hooks:
                         "update_yaxes", "update_traces", "add_annotation", "add_shape",
                         "add_hline", "add_vline", "add_hrect", "add_vrect"):
             if hasattr(BaseFigure, fn_name):
-                self.wrap(BaseFigure, fn_name, "  plotly figure API (builds, validates)")
+                self.wrap(BaseFigure, fn_name, "  plotly figure API (incl. base_figure)")
         hooks = self
 
         original = sr.ScriptRunner._enqueue_forward_msg
@@ -321,8 +329,9 @@ def print_report(kind: str, r: dict) -> None:
           f"(min {min(t):.3f}, max {max(t):.3f}); full garbage collection after it "
           f"{statistics.median(r['gc']):.3f} s")
     print("  inclusive parts (median s, calls in the last rerun):")
-    for k, v in sorted(r["parts"].items(), key=lambda kv: -statistics.median(kv[1])):
-        print(f"    {k:<36} {statistics.median(v):7.3f} s  {r['calls'].get(k, 0):5d} calls")
+    for k in sorted(r["parts"], key=lambda k: _ORDER.index(k) if k in _ORDER else len(_ORDER)):
+        v = r["parts"][k]
+        print(f"    {k:<40} {statistics.median(v):7.3f} s  {r['calls'].get(k, 0):5d} calls")
     by_type, charts = r["sizes"]
     total = sum(b for _, b in by_type.values())
     print(f"  forward messages: {sum(n for n, _ in by_type.values())}, {total / 1e3:.1f} kB in all")
