@@ -5,7 +5,6 @@ Thin: widgets -> liftcore (studies.flight, ballflight) through cached wrappers -
 
 from __future__ import annotations
 
-import numpy as np
 import pandas as pd
 import streamlit as st
 
@@ -14,7 +13,6 @@ from liftcore import figures_ball as fb
 from liftcore import units
 from liftcore.balls import BALLS, LAUNCH_KEYS, MODELS, ball_table, typical_launch
 from liftcore.errors import InputError
-from liftcore.inputs import InputSpec, choice, integer, number
 from liftcore.studies import flight as study
 from liftcore.studies import format_number
 from views.inputs import (input_widget, render_inputs, set_values, state_key, unit_system,
@@ -28,77 +26,13 @@ KIND = study.KIND
 SPEC = study.INPUTS
 #: Flights pinned to the charts of this page (not the kept options of the Compare page).
 OVERLAY_KEY = "flight:overlaid"
+#: The tracked flights uploaded on the fit tab (kept for the handout; never in files or links).
+TRACKS_KEY = "flight:tracks"
 MAX_OVERLAID = 4
 
-# ----------------------------------------------------------------------------- tool inputs
-_SWEEP_CHOICES = tuple(bf.SWEEP_INPUTS)
-_SWEEP_LABELS = tuple(v[0] for v in bf.SWEEP_INPUTS.values())
-_SWEEP_DEFAULT_RANGES = {"speed_m_s": (25.0, 55.0), "elevation_deg": (10.0, 45.0), "azimuth_deg": (-10.0, 10.0),
-                         "spin_rpm": (0.0, 4000.0), "spin_axis_deg": (-45.0, 45.0), "height_m": (0.0, 3.0)}
-_RANGE_FIELDS = []
-for _k, (_label, _q, _lo, _hi) in bf.SWEEP_INPUTS.items():
-    _d0, _d1 = _SWEEP_DEFAULT_RANGES[_k]
-    _lo = max(_lo, -90.0) if _k == "elevation_deg" else _lo
-    _step = {"rotation": 100.0, "angle": 1.0, "ball_speed": 0.5, "length": 0.1}[_q]
-    _RANGE_FIELDS.append(number(f"{_k}_from", f"{_label} from", _q, _d0, _lo, _hi, section="Sweep", step=_step))
-    _RANGE_FIELDS.append(number(f"{_k}_to", f"{_label} to", _q, _d1, _lo, _hi, section="Sweep", step=_step))
-SWEEP_SPEC = InputSpec("flight_sweep", (
-    choice("x_input", "Across", _SWEEP_CHOICES, default="elevation_deg", labels=_SWEEP_LABELS, section="Sweep"),
-    choice("y_input", "Up", _SWEEP_CHOICES, default="spin_rpm", labels=_SWEEP_LABELS, section="Sweep"),
-    integer("points", "Points per input", 21, 5, 61, section="Sweep"),
-    choice("output", "Result to map", tuple(bf.OUTPUTS), default="carry_m",
-           labels=tuple(v[0] for v in bf.OUTPUTS.values()), section="Sweep"),
-    choice("goal", "Best means", ("max", "min"), default="max", labels=("highest", "lowest"), section="Sweep"),
-    *_RANGE_FIELDS,
-))
-FIT_SPEC = InputSpec("flight_fit", (
-    choice("source", "Tracks", ("demo", "upload"), default="demo",
-           labels=("Invented demo tracks (shipped)", "My CSV file"), section="Fit"),
-    choice("mode", "Fit", bf.FIT_MODES, default="constant",
-           labels=("Constant CD and CL", "Scale factors on the chosen model"), section="Fit"),
-))
-
-
-# ----------------------------------------------------------------------------- cached core calls
-@st.cache_data(show_spinner=False, max_entries=32)
-def _sweep(values: dict, x_key, x_vals, y_key, y_vals, output, maximise):
-    setup, _ = study.setup_from_values(values)
-    return bf.sweep(setup, study.launch_from_values(values), x_key, np.array(x_vals), y_key,
-                    np.array(y_vals), output, maximise)
-
-
-@st.cache_data(show_spinner=False, max_entries=32)
-def _best(values: dict, keys, bounds, output, maximise):
-    setup, _ = study.setup_from_values(values)
-    return bf.best_launch(setup, study.launch_from_values(values), keys, bounds, output, maximise)
-
-
-def _spread(values: dict):
-    """Landing spread through the shared result cache, with a progress bar while it flies."""
-    def fly(progress):
-        setup, _ = study.setup_from_values(values)
-        return bf.dispersion(setup, study.launch_from_values(values), study.spread_sd(values),
-                             values["dispersion_n"], values["dispersion_seed"], progress=progress)
-    return cached(("flight spread", values), fly, label="Flying")
-
-
-@st.cache_data(show_spinner=False, max_entries=16)
-def _fit(values: dict, tracks: pd.DataFrame, mode: str, demo: bool):
-    if demo:
-        setup = bf.demo_tracks_setup()
-        spin, axis = bf.DEMO_TRACKS["spin_rpm"], bf.DEMO_TRACKS["spin_axis_deg"]
-        if mode == "scale":
-            setup = bf.make_setup(bf.DEMO_TRACKS["ball"], density_kg_m3=setup.density_kg_m3,
-                                  kinematic_viscosity_m2_s=setup.kinematic_viscosity_m2_s)
-    else:
-        setup, _ = study.setup_from_values(values)
-        spin, axis = values["spin_rpm"], values["spin_axis_deg"]
-    return bf.fit_tracks(setup, tracks, spin, axis, values["rifle_deg"], mode)
-
-
-@st.cache_data(show_spinner=False)
-def _demo_tracks():
-    return bf.demo_tracks()
+def _cached(name: str, values: dict, compute, label: str | None = None, data=None):
+    """A flight-study tool (sweep, best launch, spread, fit) through the shared result cache."""
+    return cached(("flight " + name, values, data), compute, label)
 
 
 def _overlay_label(i: int, vals: dict) -> str:
@@ -108,11 +42,15 @@ def _overlay_label(i: int, vals: dict) -> str:
             f"{format_number(vals['elevation_deg'])}°, {number_text(vals['spin_rpm'], 'rotation', 4)}")
 
 
-def _overlay_extra(overlaid: list):
-    """The study's ``extra`` for the overlaid flights: ((label, inputs), ...), or None."""
-    if not overlaid:
-        return None
-    return {"overlay": tuple((_overlay_label(i, v), v) for i, v in enumerate(overlaid, start=1))}
+def _page_extra(overlaid: list, values: dict):
+    """The study's ``extra``: the overlaid flights ((label, inputs), ...) and, when the fit of
+    uploaded tracks is to be in the handout, the tracks; ``None`` when there is neither."""
+    extra = {}
+    if overlaid:
+        extra["overlay"] = tuple((_overlay_label(i, v), v) for i, v in enumerate(overlaid, start=1))
+    if values["fit_in_report"] and values["fit_source"] == "file" and TRACKS_KEY in st.session_state:
+        extra["tracks"] = st.session_state[TRACKS_KEY]
+    return extra or None
 
 
 # ----------------------------------------------------------------------------- sidebar
@@ -142,7 +80,7 @@ def _typical_launch_on_ball_change(ball_changed: bool) -> None:
         mine = {k: st.session_state.get(state_key(KIND, k), SPEC.field(k).default) for k in LAUNCH_KEYS}
         if mine != launch:
             st.session_state[MY_LAUNCH] = mine
-            set_values(SPEC, launch)
+            set_values(SPEC, {**launch, **study.sweep_ranges_around(launch)})
             st.session_state[LAUNCH_NOTE] = (f"Launch set to {what} with this ball (typical values, common "
                                              f"practice): {_launch_text(launch)}.")
     elif ball_changed:
@@ -163,7 +101,8 @@ def _sidebar() -> dict:
         input_widget(SPEC, SPEC.field("ball"))
         _typical_launch_on_ball_change(ball_changed)
         input_widget(SPEC, SPEC.field("coefficient_model"))
-    return render_inputs(SPEC, skip=("ball", "coefficient_model") + study.SPREAD_KEYS)
+    return render_inputs(SPEC, skip=("ball", "coefficient_model") + study.SPREAD_KEYS
+                         + study.SWEEP_KEYS + study.FIT_KEYS)
 
 
 # ----------------------------------------------------------------------------- tabs
@@ -234,88 +173,70 @@ def _flight_3d_tab(result):
     show_figure(study_figures(study, result)["Flight path in 3-D"], key="fig_3d")
 
 
+def _draw_inputs(keys, per_row: int = 4) -> None:
+    """Study inputs drawn in the main area of a tab, ``per_row`` to a row (those that apply)."""
+    from views.inputs import current_values
+
+    now = current_values(SPEC)
+    fields = [SPEC.field(k) for k in keys if SPEC.field(k).shown_for(now)]
+    for start in range(0, len(fields), per_row):
+        for col, f in zip(st.columns(per_row), fields[start:start + per_row]):
+            with col:
+                input_widget(SPEC, f)
+
+
 def _sweep_tab(values):
-    system = unit_system()
     st.markdown("Map one result over a grid of two launch inputs; every grid point is a full flight. "
-                "The star marks the best grid point; the search refines it.")
-    c1, c2, c3, c4 = st.columns(4)
-    with c1:
-        x_key = input_widget(SWEEP_SPEC, SWEEP_SPEC.field("x_input"))
-    with c2:
-        y_key = input_widget(SWEEP_SPEC, SWEEP_SPEC.field("y_input"))
-    with c3:
-        output = input_widget(SWEEP_SPEC, SWEEP_SPEC.field("output"))
-    with c4:
-        goal = input_widget(SWEEP_SPEC, SWEEP_SPEC.field("goal"))
-    c1, c2, c3, c4, c5 = st.columns(5)
-    with c1:
-        x0 = input_widget(SWEEP_SPEC, SWEEP_SPEC.field(f"{x_key}_from"))
-    with c2:
-        x1 = input_widget(SWEEP_SPEC, SWEEP_SPEC.field(f"{x_key}_to"))
-    with c3:
-        y0 = input_widget(SWEEP_SPEC, SWEEP_SPEC.field(f"{y_key}_from"))
-    with c4:
-        y1 = input_widget(SWEEP_SPEC, SWEEP_SPEC.field(f"{y_key}_to"))
-    with c5:
-        n = input_widget(SWEEP_SPEC, SWEEP_SPEC.field("points"))
-    if x_key == y_key:
-        st.error("Choose two different inputs to sweep.")
-        return
-    if not (x0 < x1 and y0 < y1):
-        st.error("Each range needs 'from' below 'to'.")
-        return
-    xs = tuple(np.linspace(x0, x1, n))
-    ys = tuple(np.linspace(y0, y1, n))
-    maximise = goal == "max"
+                "The star marks the best grid point; the search refines it. These settings go into "
+                "the share link and the scenario file.")
+    _draw_inputs(("sweep_x", "sweep_y", "sweep_output", "sweep_goal"))
+    from views.inputs import current_values
+
+    now = current_values(SPEC)
+    x, y = now["sweep_x"], now["sweep_y"]
+    _draw_inputs((f"sweep_{x}_from", f"sweep_{x}_to", f"sweep_{y}_from", f"sweep_{y}_to",
+                  "sweep_points", "sweep_in_report"), per_row=6)
+    v = {**values, **{k: st.session_state.get(state_key(KIND, k), SPEC.field(k).default) for k in study.SWEEP_KEYS}}
     try:
-        with st.spinner("Flying the grid…"):
-            sw = _sweep(values, x_key, xs, y_key, ys, output, maximise)
+        sw = _cached("sweep", v, lambda progress: study.launch_sweep(v, progress), "Flying the grid")
     except InputError as exc:
-        st.error(str(exc))
+        st.error(str(exc), icon=":material/error:")
         return
-    out_label, out_kind = bf.OUTPUTS[output]
-    labels = {k: (v[0], v[1]) for k, v in bf.SWEEP_INPUTS.items()}
+    out_label, out_kind = bf.OUTPUTS[v["sweep_output"]]
+    labels = study.SWEEP_LABELS
     c1, c2 = st.columns([3, 1])
     with c2:
         st.metric(f"Best {out_label.lower()} on the grid", number_text(sw.best_value, out_kind, 4))
-        st.caption(f"{labels[x_key][0]}: {number_text(sw.best_x, labels[x_key][1])}; "
-                   f"{labels[y_key][0]}: {number_text(sw.best_y, labels[y_key][1])}")
+        st.caption(f"{labels[sw.x_key][0]}: {number_text(sw.best_x, labels[sw.x_key][1])}; "
+                   f"{labels[sw.y_key][0]}: {number_text(sw.best_y, labels[sw.y_key][1])}")
+        opt = None
         if st.button("Search the best launch", key="flight_search",
                      help="Refines the grid's best point within the two ranges (scipy Nelder-Mead)."):
-            with st.spinner("Searching…"):
-                st.session_state["flight:best"] = (_best(values, (x_key, y_key), ((x0, x1), (y0, y1)),
-                                                         output, maximise),
-                                                   (x_key, y_key, output, maximise, x0, x1, y0, y1))
-        best = st.session_state.get("flight:best")
-        opt = None
-        if best and best[1] == (x_key, y_key, output, maximise, x0, x1, y0, y1):
-            opt = best[0]
+            st.session_state["flight:searched"] = v
+        if st.session_state.get("flight:searched") == v:
+            opt = _cached("best", v, lambda progress: study.best_launch(v), "Searching")
             st.metric(f"Searched {out_label.lower()}", number_text(opt.best_value, out_kind, 4))
-            st.caption("; ".join(f"{labels[k][0]}: {number_text(v, labels[k][1])}" for k, v in zip(opt.keys, opt.values))
-                       + f" ({opt.evaluations} flights). Other inputs as in the sidebar.")
+            st.caption("; ".join(f"{labels[k][0]}: {number_text(val, labels[k][1])}"
+                                 for k, val in zip(opt.keys, opt.values))
+                       + f" ({opt.evaluations:,} flights). Other inputs as in the sidebar.")
     with c1:
-        show_figure(fb.sweep_heatmap(sw, labels, out_label, out_kind, system,
-                                     searched=None if opt is None else opt.values), key="fig_sweep")
+        show_figure(study.sweep_figure(sw, v, unit_system(), None if opt is None else opt.values),
+                    key="fig_sweep")
     show_warnings([w for w in sw.warnings if w.severity == "invalid"])
 
 
 def _spread_tab(values):
     st.markdown("Launch conditions drawn from normal distributions (seeded, so a run repeats); "
                 "each draw is flown to the ground.")
-    cols = st.columns(4)
-    for i, key in enumerate(study.SPREAD_KEYS):
-        with cols[i % 4]:
-            input_widget(SPEC, SPEC.field(key))
-    v = dict(values)
-    for key in study.SPREAD_KEYS:
-        v[key] = st.session_state.get(state_key(KIND, key), SPEC.field(key).default)
+    _draw_inputs(study.SPREAD_KEYS)
+    v = {**values, **{k: st.session_state.get(state_key(KIND, k), SPEC.field(k).default) for k in study.SPREAD_KEYS}}
     if v["dispersion_n"] < 2:
         st.info("Set the number of flights to 2 or more to see the spread.")
         return
     try:
-        disp = _spread(v)
+        disp = _cached("spread", v, lambda progress: study.landing_spread(v, progress), "Flying")
     except InputError as exc:
-        st.error(str(exc))
+        st.error(str(exc), icon=":material/error:")
         return
     system = unit_system()
     c = st.columns(5)
@@ -342,44 +263,40 @@ def _fit_tab(values):
         "to the right, `z` height above the ground, all in metres; lines starting with `#` are "
         "comments; at least 6 rows per flight. Your own tracks use the ball, air and the spin rate "
         "and axis set in the sidebar.")
-    c1, c2 = st.columns(2)
-    with c1:
-        source = input_widget(FIT_SPEC, FIT_SPEC.field("source"))
-    with c2:
-        mode = input_widget(FIT_SPEC, FIT_SPEC.field("mode"))
-    demo = source == "demo"
-    if demo:
-        tracks = _demo_tracks()
+    _draw_inputs(study.FIT_KEYS, per_row=3)
+    v = {**values, **{k: st.session_state.get(state_key(KIND, k), SPEC.field(k).default) for k in study.FIT_KEYS}}
+    tracks = None
+    if v["fit_source"] == "demo":
         d = bf.DEMO_TRACKS
-        st.caption(f"Invented demo tracks: a baseball at sea level with {d['spin_rpm']:.0f} rpm backspin, made from "
+        shown = _cached("demo tracks", {}, lambda progress: bf.demo_tracks())
+        st.caption(f"Invented demo tracks: a baseball at sea level with {d['spin_rpm']:,.0f} rpm backspin, made from "
                    f"constant CD {d['cd']} and CL {d['cl']} plus {100 * d['noise_m']:.0f} cm noise; the fit should find them.")
     else:
         up = st.file_uploader("Tracked positions (CSV)", type=["csv", "txt"], key="flight_tracks_file")
         st.download_button("Example file in this format (the invented demo tracks)",
-                           _demo_tracks().to_csv(index=False), "tracks_example_invented.csv", "text/csv",
-                           key="flight_tracks_template")
+                           _cached("demo tracks", {}, lambda progress: bf.demo_tracks()).to_csv(index=False),
+                           "tracks_example_invented.csv", "text/csv", key="flight_tracks_template")
         if up is None:
             st.info("Upload a CSV file in the format above, or choose the invented demo tracks.")
             return
         try:
             tracks = bf.read_tracks(up)
         except InputError as exc:
-            st.error(str(exc))
+            st.error(str(exc), icon=":material/error:")
             return
-    st.caption(f"{tracks['flight'].nunique()} flights, {len(tracks)} positions.")
-    if not st.button("Fit the tracks", key="flight_fit_run", type="primary"):
-        prev = st.session_state.get("flight:fit")
-        if not prev or prev[1] != (source, mode):
-            return
-        fit = prev[0]
-    else:
-        try:
-            with st.spinner("Fitting…"):
-                fit = _fit(values, tracks, mode, demo)
-        except InputError as exc:
-            st.error(str(exc))
-            return
-        st.session_state["flight:fit"] = (fit, (source, mode))
+        tracks.attrs["source_name"] = up.name
+        st.session_state[TRACKS_KEY] = tracks  # for the handout, when the fit is to be in it
+        shown = tracks
+    st.caption(f"{shown['flight'].nunique():,} flights, {len(shown):,} positions.")
+    if st.button("Fit the tracks", key="flight_fit_run", type="primary"):
+        st.session_state["flight:fitted"] = (v, tracks is None or tracks.attrs.get("source_name"))
+    if st.session_state.get("flight:fitted") != (v, tracks is None or tracks.attrs.get("source_name")):
+        return
+    try:
+        fit = _cached("fit", v, lambda progress: study.track_fit(v, tracks), "Fitting", data=tracks)
+    except InputError as exc:
+        st.error(str(exc), icon=":material/error:")
+        return
     a, sa = fit.parameter(fit.names[0])
     b, sb = fit.parameter(fit.names[1])
     c = st.columns(3)
@@ -387,12 +304,12 @@ def _fit_tab(values):
     c[1].metric(fit.names[1], f"{b:.4f} ± {sb:.4f}")
     c[2].metric("RMS miss", number_text(fit.rms_m, "length"))
     st.caption("± one standard deviation from the Jacobian at the solution (assumes independent, equal "
-               f"noise on every coordinate); {fit.nfev} evaluations of the residuals, {fit.dof} degrees of freedom. "
+               f"noise on every coordinate); {fit.nfev:,} evaluations of the residuals, {fit.dof:,} degrees of freedom. "
                f"{fit.message}")
     c1, c2 = st.columns(2)
     system = unit_system()
     with c1:
-        show_figure(fb.fit_tracks_side(fit, tracks, system), key="fig_fit_side")
+        show_figure(fb.fit_tracks_side(fit, shown, system), key="fig_fit_side")
     with c2:
         show_figure(fb.fit_residuals(fit, system), key="fig_fit_res")
     with st.expander("All fitted parameters"):
@@ -438,8 +355,9 @@ st.title("Spinning ball flight")
 st.caption("How far, how high and how much a spinning ball curves, with drag, Magnus lift, spin decay, wind "
            "and the air of the venue. Every example is invented. Drift and angles are positive to the right.")
 values = _sidebar()
-main_values = dict(values, dispersion_n=0)
-extra = _overlay_extra(st.session_state.get(OVERLAY_KEY, []))
+# the page's main run is the one flight (and a second one); its tabs run the rest when opened
+main_values = dict(values, dispersion_n=0, sweep_in_report=False, fit_in_report=False)
+extra = _page_extra(st.session_state.get(OVERLAY_KEY, []), values)
 result, problem = run_for_page(KIND, main_values, extra=extra, label="Flying")
 page_tools(study, extra=extra, problem=problem)
 if problem:

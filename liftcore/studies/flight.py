@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
+import numpy as np
 import pandas as pd
 
 from liftcore import ballflight as bf
@@ -16,6 +17,7 @@ from liftcore import figures_ball as fb
 from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
+from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number
 from liftcore.studies import Charts, Headline, StudyResult, table_in_units
 from liftcore.validity import ModelWarning, merge
@@ -118,6 +120,60 @@ INPUTS = INPUTS.with_rules({
     "compare_speed_m_s": lambda v: v["compare_with"] == "speed",
 })
 
+# ----------------------------------------------------------------------------- sweep and fit inputs
+#: Default range of each input the launch sweep can map (core units).
+SWEEP_DEFAULT_RANGES = {"speed_m_s": (25.0, 55.0), "elevation_deg": (10.0, 45.0),
+                        "azimuth_deg": (-10.0, 10.0), "spin_rpm": (0.0, 4000.0),
+                        "spin_axis_deg": (-45.0, 45.0), "height_m": (0.0, 3.0)}
+_SWEEP_STEPS = {"rotation": 100.0, "angle": 1.0, "ball_speed": 0.5, "length": 0.1}
+_SW = "Launch sweep"
+
+
+def _range_fields():
+    out = []
+    for key, (label, q, lo, hi) in bf.SWEEP_INPUTS.items():
+        d0, d1 = SWEEP_DEFAULT_RANGES[key]
+        lo = max(lo, -90.0) if key == "elevation_deg" else lo
+        for end, default in (("from", d0), ("to", d1)):
+            out.append(number(f"sweep_{key}_{end}", f"{label} {end}", q, default, lo, hi, section=_SW,
+                              step=_SWEEP_STEPS[q], advanced=True,
+                              show_if=lambda v, key=key: key in (v["sweep_x"], v["sweep_y"])))
+    return tuple(out)
+
+
+_SWEEP_CHOICES = tuple(bf.SWEEP_INPUTS)
+_SWEEP_LABELS = tuple(v[0] for v in bf.SWEEP_INPUTS.values())
+SWEEP_FIELDS = (
+    choice("sweep_x", "Across", _SWEEP_CHOICES, default="elevation_deg", labels=_SWEEP_LABELS,
+           section=_SW, advanced=True, help="The launch input along the map's horizontal axis."),
+    choice("sweep_y", "Up", _SWEEP_CHOICES, default="spin_rpm", labels=_SWEEP_LABELS, section=_SW,
+           advanced=True, help="The launch input along the map's vertical axis."),
+    integer("sweep_points", "Points per input", 21, 5, 61, section=_SW, advanced=True,
+            help="Grid points along each input: points² flights in one batch."),
+    choice("sweep_output", "Result to map", tuple(bf.OUTPUTS), default="carry_m",
+           labels=tuple(v[0] for v in bf.OUTPUTS.values()), section=_SW, advanced=True),
+    choice("sweep_goal", "Best means", ("max", "min"), default="max", labels=("highest", "lowest"),
+           section=_SW, advanced=True),
+    *_range_fields(),
+    flag("sweep_in_report", "Put the sweep in the handout", False, section=_SW, advanced=True,
+         help="The map (and its best grid point) in the handout, the numbers file and the output "
+              "of `python -m liftcore run`."),
+)
+_FIT = "Fit to tracked flights"
+FIT_FIELDS = (
+    choice("fit_source", "Tracks", ("demo", "file"), default="demo",
+           labels=("Invented demo tracks (shipped)", "My CSV file"), section=_FIT, advanced=True),
+    choice("fit_mode", "Fit", bf.FIT_MODES, default="constant",
+           labels=("Constant CD and CL", "Scale factors on the chosen model"), section=_FIT,
+           advanced=True),
+    flag("fit_in_report", "Put the fit in the handout", False, section=_FIT, advanced=True,
+         help="The fitted coefficients with their uncertainty in the handout and `run` (your own "
+              "tracks only on the page, where the file is uploaded)."),
+)
+INPUTS = InputSpec(KIND, INPUTS.fields + SWEEP_FIELDS + FIT_FIELDS)
+SWEEP_KEYS = tuple(f.key for f in SWEEP_FIELDS)
+FIT_KEYS = tuple(f.key for f in FIT_FIELDS)
+
 SPREAD_KEYS = ("dispersion_n", "dispersion_seed", "sd_speed_m_s", "sd_elevation_deg", "sd_azimuth_deg",
                "sd_spin_rpm", "sd_spin_axis_deg")
 COMPARE_KEYS = ("compare_with", "compare_altitude_m", "compare_ball", "compare_spin_rpm", "compare_speed_m_s")
@@ -161,6 +217,8 @@ class FlightDetail:
     air: object
     dispersion: object = None
     compare_warnings: tuple = ()
+    sweep: object = None
+    fit: object = None
 
 
 def setup_from_values(values: dict, ball_key: str | None = None, altitude_m: float | None = None,
@@ -204,6 +262,86 @@ def spread_sd(values: dict) -> dict:
     return {"speed_m_s": values["sd_speed_m_s"], "elevation_deg": values["sd_elevation_deg"],
             "azimuth_deg": values["sd_azimuth_deg"], "spin_rpm": values["sd_spin_rpm"],
             "spin_axis_deg": values["sd_spin_axis_deg"]}
+
+
+def sweep_ranges_around(launch: dict) -> dict:
+    """Sweep ranges that suit a launch (e.g. a ball's typical one): speed 60 % to 120 % of it,
+    elevation from 15° below to 25° above it, spin from 0 to twice it (rounded)."""
+    v, e, w = launch["speed_m_s"], launch["elevation_deg"], launch["spin_rpm"]
+    return {"sweep_speed_m_s_from": round(0.6 * v, 1), "sweep_speed_m_s_to": round(1.2 * v, 1),
+            "sweep_elevation_deg_from": max(-45.0, round(e - 15.0)),
+            "sweep_elevation_deg_to": min(75.0, round(e + 25.0)),
+            "sweep_spin_rpm_from": 0.0, "sweep_spin_rpm_to": max(500.0, round(2.0 * w, -2))}
+
+
+def sweep_grid(values: dict) -> tuple:
+    """(x key, x values, y key, y values) of the launch sweep the inputs ask for; refuses two
+    equal inputs or an empty range."""
+    x, y, n = values["sweep_x"], values["sweep_y"], values["sweep_points"]
+    if x == y:
+        raise InputError("sweep inputs", f"the launch sweep needs two different inputs (got "
+                                         f"{bf.SWEEP_INPUTS[x][0]} twice)")
+    grids = []
+    for key in (x, y):
+        lo, hi = values[f"sweep_{key}_from"], values[f"sweep_{key}_to"]
+        if not lo < hi:
+            label = bf.SWEEP_INPUTS[key][0]
+            raise InputError(f"sweep {key}", f"the sweep's {label} range needs 'from' below 'to' "
+                                             f"(got {lo:g} to {hi:g})")
+        grids.append(np.linspace(lo, hi, n))
+    return x, grids[0], y, grids[1]
+
+
+def launch_sweep(values: dict, progress=None) -> bf.SweepResult:
+    """The launch sweep of the inputs: ``sweep_output`` over the grid of :func:`sweep_grid`,
+    every grid point a full flight (one batch), the best grid point marked."""
+    setup, _ = setup_from_values(values)
+    x, xs, y, ys = sweep_grid(values)
+    return bf.sweep(setup, launch_from_values(values), x, xs, y, ys, values["sweep_output"],
+                    values["sweep_goal"] == "max", progress=progress)
+
+
+def best_launch(values: dict) -> bf.OptimumResult:
+    """The best ``sweep_output`` within the sweep's two ranges (scipy Nelder-Mead from the best
+    grid point; see :func:`liftcore.ballflight.best_launch`)."""
+    setup, _ = setup_from_values(values)
+    x, xs, y, ys = sweep_grid(values)
+    return bf.best_launch(setup, launch_from_values(values), (x, y), ((xs[0], xs[-1]), (ys[0], ys[-1])),
+                          values["sweep_output"], values["sweep_goal"] == "max")
+
+
+def landing_spread(values: dict, progress=None) -> bf.DispersionResult:
+    """``dispersion_n`` flights with launch inputs drawn from normal distributions (seeded)."""
+    setup, _ = setup_from_values(values)
+    return bf.dispersion(setup, launch_from_values(values), spread_sd(values), values["dispersion_n"],
+                         values["dispersion_seed"], progress=progress)
+
+
+def track_fit(values: dict, tracks=None) -> bf.FitResult:
+    """Drag and lift (constants or scale factors, ``fit_mode``) and each flight's launch state
+    fitted to tracked positions by least squares. ``tracks`` ``None``: the invented demo tracks
+    with the ball, air and spin they were made with; else the inputs' ball, air and spin."""
+    mode = values["fit_mode"]
+    if tracks is None:
+        tracks = bf.demo_tracks()
+        setup = bf.demo_tracks_setup()
+        spin, axis = bf.DEMO_TRACKS["spin_rpm"], bf.DEMO_TRACKS["spin_axis_deg"]
+        if mode == "scale":
+            setup = bf.make_setup(bf.DEMO_TRACKS["ball"], density_kg_m3=setup.density_kg_m3,
+                                  kinematic_viscosity_m2_s=setup.kinematic_viscosity_m2_s)
+    else:
+        setup, _ = setup_from_values(values)
+        spin, axis = values["spin_rpm"], values["spin_axis_deg"]
+    return bf.fit_tracks(setup, tracks, spin, axis, values["rifle_deg"], mode)
+
+
+SWEEP_LABELS = {k: (v[0], v[1]) for k, v in bf.SWEEP_INPUTS.items()}
+
+
+def sweep_figure(sw: bf.SweepResult, values: dict, system: str = "SI", searched=None):
+    """The sweep's heat map in ``system``'s units (``searched``: a best point to mark)."""
+    out_label, out_kind = bf.OUTPUTS[values["sweep_output"]]
+    return fb.sweep_heatmap(sw, SWEEP_LABELS, out_label, out_kind, system, searched=searched)
 
 
 def comparison_label(values: dict, system: str = "SI") -> str:
@@ -265,8 +403,12 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         flights.append(bf.fly(su, launch_from_values(clean), label=str(label)))
     disp = None
     if values["dispersion_n"] > 0:
-        disp = bf.dispersion(setup, launch, spread_sd(values), values["dispersion_n"],
-                             values["dispersion_seed"], progress=progress)
+        disp = landing_spread(values, progress=progress)
+    sw = launch_sweep(values) if values["sweep_in_report"] else None
+    fit = None
+    if values["fit_in_report"]:
+        tracks = extra.get("tracks") if isinstance(extra, dict) else None
+        fit = track_fit(values, tracks if values["fit_source"] == "file" else None)
     warnings = list(main.warnings)
     for w in air.warnings:
         warnings.append(replace(w, subject=""))
@@ -275,7 +417,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                      "spin decay)", ""))
     heads = tuple(Headline(k, label, getattr(main, k), kind, 3 if k != "carry_m" else 4, HEADLINE_HELP[k])
                   for k, (label, kind) in bf.OUTPUTS.items())
-    figs = flight_figures(flights, disp, "SI")
+    figs = flight_figures(flights, disp, "SI", sw, values)
     tables = {}
     for f in flights:
         df = pd.DataFrame(f.path)
@@ -291,12 +433,21 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     if cmp is not None:
         js["comparison"] = {"label": cmp[0].label, **cmp[0].headline_dict(),
                             "warnings": [w.as_dict() for w in cmp_ws]}
+    if sw is not None:
+        tables["sweep"] = sweep_table(sw, values)
+        js["sweep"] = {"x": sw.x_key, "y": sw.y_key, "output": values["sweep_output"],
+                       "best_value": sw.best_value, "best_x": sw.best_x, "best_y": sw.best_y}
+    if fit is not None:
+        tables["fit"] = fit.table()
+        js["fit"] = {"mode": fit.mode, "rms_m": fit.rms_m,
+                     **{name: {"value": v, "sd": sd} for name, (v, sd) in
+                        ((n, fit.parameter(n)) for n in fit.names[:2])}}
     if disp is not None:
         js["dispersion"] = disp.summary()
         tables["spread"] = pd.DataFrame({"carry_m": disp.carry_m, "lateral_m": disp.lateral_m,
                                          "flight_time_s": disp.flight_time_s, **{f"launch_{k}": v for k, v in disp.draws.items()}})
     return StudyResult(KIND, dict(values), heads, merge(warnings), figs, tables,
-                       FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws), js)
+                       FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws, sw, fit), js)
 
 
 # ----------------------------------------------------------------------------- display units
@@ -314,7 +465,14 @@ DISPLAY_NAMES = {"x_m": "downrange_m", "lateral_m": "drift_right_m", "z_m": "hei
                  "speed_m_s": "ball_speed_m_s", "reynolds": "Reynolds_number", "cd": "CD", "cl": "CL"}
 
 
-def flight_figures(flights, disp=None, system: str = "SI") -> tuple:
+def sweep_table(sw: bf.SweepResult, values: dict):
+    """The sweep as a long table: the two inputs and the mapped result at every grid point."""
+    xx, yy = np.meshgrid(sw.x_values, sw.y_values)
+    return pd.DataFrame({sw.x_key: xx.ravel(), sw.y_key: yy.ravel(),
+                         values["sweep_output"]: np.asarray(sw.grid).ravel()})
+
+
+def flight_figures(flights, disp=None, system: str = "SI", sw=None, values=None) -> Charts:
     """(title, figure) pairs of the study in ``system``'s display units."""
     figs = [("Flight path in 3-D", lambda: fb.trajectory_3d(flights, system)),
             ("Side view", lambda: fb.side_view(flights, system)),
@@ -322,6 +480,8 @@ def flight_figures(flights, disp=None, system: str = "SI") -> tuple:
             ("Along the flight", lambda: fb.along_flight(flights, system))]
     if disp is not None:
         figs.append(("Landing spread", lambda: fb.dispersion_figure(disp, system)))
+    if sw is not None:
+        figs.append(("Launch sweep", lambda: sweep_figure(sw, values, system)))
     return Charts(figs)
 
 
@@ -337,7 +497,8 @@ def figures_in_units(result: StudyResult, system: str) -> tuple:
     """The charts of ``result`` with distances, heights and speeds in ``system``'s units."""
     if system == "SI":
         return result.figures
-    return flight_figures(display_flights(result, system), result.detail.dispersion, system)
+    return flight_figures(display_flights(result, system), result.detail.dispersion, system,
+                          result.detail.sweep, result.inputs)
 
 
 def tables_in_units(result: StudyResult, system: str) -> dict:
