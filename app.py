@@ -1,5 +1,6 @@
 """liftcore dashboard: routes to the pages in views/ (``streamlit run app.py``)."""
 
+import gc
 from pathlib import Path
 
 import streamlit as st
@@ -25,3 +26,8 @@ nav = st.navigation(pages + [st.Page(overview_address, title="Overview", url_pat
                                      visibility="hidden")])
 inputs.sidebar_chrome()
 nav.run()
+if not gc.get_freeze_count():
+    # Streamlit collects garbage after every run; the modules and tables loaded once would be
+    # scanned each time. Set them aside once, after the first page (CPython's gc.freeze).
+    gc.collect()
+    gc.freeze()
