@@ -164,9 +164,10 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
         fig.update_layout({polar: dict(
             angularaxis=dict(rotation=90, direction="clockwise", tickmode="array",
                              tickvals=[0, 45, 90, 135, 180, 225, 270, 315], ticktext=COMPASS_LABELS),
-            # the radial labels run between the "0° bow" and "45°" labels, clear of both
-            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=RADIAL_ANGLE_DEG, tickangle=RADIAL_ANGLE_DEG, nticks=5,
-                            tickfont=dict(size=FONT_SIZE - 3)))})
+            # the radial labels run between the "0° bow" and "45°" labels, clear of both, and
+            # stand level (a tick angle equal to the axis angle)
+            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=RADIAL_ANGLE_DEG,
+                            tickangle=RADIAL_ANGLE_DEG, nticks=5, tickfont=dict(size=FONT_SIZE - 3)))})
     for ann in fig.layout.annotations:  # the panel titles clear of the "0° bow" label
         ann.update(yanchor="bottom", yshift=COMPASS_LABEL_PX)
     fig.update_layout(title_subtitle_text="At this true wind and ship speed",

@@ -60,8 +60,9 @@ def wind_rose(t: vy.Tally, system: str = "SI") -> go.Figure:
                                   name=lab, marker_color=colours[j], marker_line_width=0.5,
                                   marker_line_color="white",
                                   hovertemplate="%{theta:.0f}°: %{r:.2f} % of time<extra>" + lab + "</extra>"))
-    # the radial labels run between the first two compass labels, clear of both, and the outer
-    # ring leaves room past the longest bar so the last label stays inside the circle
+    # the radial labels run between the first two compass labels, clear of both, and stand level
+    # (a tick angle equal to the axis angle); the outer ring leaves room past the longest bar so
+    # the last label stays inside the circle
     top = float(np.max(share.sum(axis=1))) if share.size else 1.0
     fig.update_layout(polar=dict(angularaxis=dict(direction="clockwise", rotation=90, **ticks),
                                  radialaxis=dict(ticksuffix=" %", angle=67.5, tickangle=67.5, nticks=4,
