@@ -11,7 +11,7 @@ import numpy as np
 import plotly.graph_objects as go
 
 from liftcore import units
-from liftcore.figures import LINE_WIDTH, SEQUENTIAL, base_figure, colour
+from liftcore.figures import FONT_SIZE, LINE_WIDTH, SEQUENTIAL, base_figure, colour, finish
 
 AXIS_WORDS = {"x_m": "Downrange", "lateral_m": "Drift (right +)", "z_m": "Height"}
 
@@ -25,24 +25,27 @@ def _lbl(text, kind, system):
     return f"{text} [{u}]" if u else text
 
 
-#: Room for one legend line under a chart, and the gap from the plot to the legend. [px]
-LEGEND_LINE_PX = 28
-LEGEND_GAP_PX = 78
+#: Shape of the 3-D box and where it is seen from (in box units): the whole box with its axis
+#: labels stays inside a chart down to about 1.2 times as wide as its plot is high (the handout's
+#: 680 px chart); WebGL scenes fit their height and crop their sides in narrower charts.
+SCENE_ASPECT = dict(x=1.7, y=0.8, z=0.65)
+SCENE_EYE = dict(x=-1.6, y=-1.75, z=0.8)
+SCENE_CENTRE = dict(x=0.0, y=0.0, z=-0.05)
 
 
-def _legend_below(fig: go.Figure, n_entries: int) -> None:
-    """Flight names under the chart (below the x-axis title), one per line, so long names never
-    squeeze the plot; the chart grows by the legend's height and the plot keeps its size."""
-    lay = fig.layout
-    plot_px = lay.height - lay.margin.t - lay.margin.b
-    extra = LEGEND_GAP_PX - lay.margin.b + LEGEND_LINE_PX * n_entries + 10
-    fig.update_layout(legend=dict(orientation="v", yanchor="top", y=-LEGEND_GAP_PX / plot_px, x=0.0),
-                      height=lay.height + extra, margin=dict(b=lay.margin.b + extra))
+def _ticks_above_zero(top: float, n: int = 3) -> list[float]:
+    """Round tick values (1, 2 or 5 times a power of ten) in (0, ``top``], as near ``n`` of them
+    as such steps allow."""
+    power = 10.0 ** np.floor(np.log10(top / n))
+    steps = [m * power * f for f in (0.1, 1.0, 10.0) for m in (1.0, 2.0, 5.0)]
+    step = min(steps, key=lambda st: (abs(np.floor(top / st + 1e-9) - n), st))
+    return [float(f"{v:.10g}") for v in np.arange(step, top * (1 + 1e-9), step)]
 
 
 def trajectory_3d(flights, system: str = "SI") -> go.Figure:
     """Where does the ball go? 3-D path of each flight (x downrange, drift right +, height)."""
-    fig = base_figure("Flight path in 3-D", height=560)
+    fig = base_figure("Flight path in 3-D", height=540)
+    top = max([float(np.max(_u(f.path["z_m"], "length", system))) for f in flights] + [1e-3])
     for i, f in enumerate(flights):
         p = f.path
         fig.add_trace(go.Scatter3d(
@@ -57,12 +60,15 @@ def trajectory_3d(flights, system: str = "SI") -> go.Figure:
         xaxis_title=_lbl("Downrange", "distance", system),
         yaxis_title=_lbl("Drift, right +", "distance", system),
         zaxis_title=_lbl("Height", "length", system), aspectmode="manual",
-        aspectratio=dict(x=2.4, y=1.0, z=0.8),
+        aspectratio=SCENE_ASPECT,
         # seen from behind and to the left of the launch point; drift to the right reads rightward
-        yaxis=dict(autorange="reversed"),
-        camera=dict(eye=dict(x=-1.6, y=-2.2, z=1.1), center=dict(x=0.1, y=0, z=-0.15))),
-        margin=dict(l=0, r=0, t=60, b=0))
-    return fig
+        # few ticks on the two short axes, whose labels meet at the near corner; the height's
+        # zero (the ground) is left unlabelled so it does not sit on the drift axis' labels
+        yaxis=dict(autorange="reversed", nticks=4),
+        zaxis=dict(tickvals=_ticks_above_zero(top), range=[0.0, top * 1.05]),
+        camera=dict(eye=SCENE_EYE, center=SCENE_CENTRE)),
+        margin=dict(l=10, r=10))
+    return finish(fig)
 
 
 def side_view(flights, system: str = "SI") -> go.Figure:
@@ -79,8 +85,7 @@ def side_view(flights, system: str = "SI") -> go.Figure:
                                  hovertemplate="peak %{y:.1f} " + units.unit_label("length", system)
                                                + "<extra></extra>"))
     fig.update_yaxes(rangemode="tozero")
-    _legend_below(fig, len(flights))
-    return fig
+    return finish(fig)
 
 
 def top_view(flights, system: str = "SI") -> go.Figure:
@@ -94,8 +99,7 @@ def top_view(flights, system: str = "SI") -> go.Figure:
     fig.add_hline(y=0, line=dict(color="#777", width=1, dash="dot"))
     # right positive reads naturally with "right" drawn downward when looking downrange from above
     fig.update_yaxes(autorange="reversed")
-    _legend_below(fig, len(flights))
-    return fig
+    return finish(fig)
 
 
 def along_flight(flights, system: str = "SI") -> go.Figure:
@@ -115,17 +119,13 @@ def along_flight(flights, system: str = "SI") -> go.Figure:
     fig.update_yaxes(title_text="Spin [rpm]", row=2, col=1)
     fig.update_yaxes(title_text="Spin parameter S", row=3, col=1)
     fig.update_xaxes(title_text="Time [s]", row=3, col=1)
-    for r in (1, 2, 3):
-        fig.update_xaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5", row=r, col=1)
-        fig.update_yaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5", row=r, col=1)
-    _legend_below(fig, len(flights))
-    return fig
+    return finish(fig)
 
 
 def coefficient_curves(model, flight, system: str = "SI") -> go.Figure:
     """Which drag and lift did the flight use? CD and CL met along the flight, against S."""
-    fig = base_figure(f"Coefficients met in flight ({model.title})", "Spin parameter S",
-                      "Coefficient", height=420)
+    fig = base_figure("Coefficients met in flight", "Spin parameter S", "Coefficient", height=420,
+                      subtitle=f"Model: {model.title}")
     p = flight.path
     fig.add_trace(go.Scatter(x=p["spin_parameter"], y=p["cd"], mode="lines+markers", name="CD (drag)",
                              marker=dict(size=4), line=dict(width=LINE_WIDTH, color=colour(0))))
@@ -135,7 +135,7 @@ def coefficient_curves(model, flight, system: str = "SI") -> go.Figure:
     if np.isfinite(hi):
         fig.add_vrect(x0=lo, x1=hi, fillcolor="#009E73", opacity=0.08, line_width=0,
                       annotation_text="model's S range", annotation_position="bottom left")
-    return fig
+    return finish(fig)
 
 
 def dispersion_figure(disp, system: str = "SI", title: str = "Where do the balls land?") -> go.Figure:
@@ -153,7 +153,7 @@ def dispersion_figure(disp, system: str = "SI", title: str = "Where do the balls
     fig.add_trace(go.Scatter(x=[_u(disp.mean_m[0], "distance", system)], y=[_u(disp.mean_m[1], "distance", system)],
                              mode="markers", name="mean", marker=dict(size=14, symbol="x", color=colour(6))))
     fig.update_yaxes(autorange="reversed", scaleanchor="x", scaleratio=1)
-    return fig
+    return finish(fig)
 
 
 def carry_histogram(disp, system: str = "SI") -> go.Figure:
@@ -165,7 +165,14 @@ def carry_histogram(disp, system: str = "SI") -> go.Figure:
         v = _u(disp.carry_percentiles_m[p], "distance", system)
         fig.add_vline(x=v, line=dict(color=colour(1), width=2.5, dash=dash),
                       annotation_text=f"P{p:02d}", annotation_position="top")
-    return fig
+    return finish(fig)
+
+
+#: Markers on the heat map: a light fill inside a dark outline, so each shows on every part of the
+#: colour scale (the fill on its dark end, the outline on its light end).
+MARKER_OUTLINE = "#000000"
+GRID_BEST_FILL = "#E69F00"
+SEARCHED_FILL = "#FFFFFF"
 
 
 def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI",
@@ -180,28 +187,43 @@ def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system:
                              colorscale=SEQUENTIAL,
                              colorbar=dict(title=dict(text=_lbl(output_label, output_kind, system), side="right"))))
     word = "highest" if sw.maximise else "lowest"
-    fig.add_trace(go.Scatter(x=[_u(sw.best_x, xk, system)], y=[_u(sw.best_y, yk, system)], mode="markers+text",
-                             marker=dict(size=18, symbol="star", color="#D55E00", line=dict(width=2, color="white")),
-                             text=[f"{word}"], textposition="top center", textfont=dict(color="white", size=16),
+    fig.add_trace(go.Scatter(x=[_u(sw.best_x, xk, system)], y=[_u(sw.best_y, yk, system)], mode="markers",
+                             marker=dict(size=20, symbol="star", color=GRID_BEST_FILL,
+                                         line=dict(width=2, color=MARKER_OUTLINE)),
                              name=f"{word} on the grid"))
     if searched is not None:
         fig.add_trace(go.Scatter(x=[_u(searched[0], xk, system)], y=[_u(searched[1], yk, system)], mode="markers",
-                                 marker=dict(size=16, symbol="circle-open", color="white", line=dict(width=3)),
+                                 marker=dict(size=15, symbol="circle", color=SEARCHED_FILL,
+                                             line=dict(width=3, color=MARKER_OUTLINE)),
                                  name="searched best"))
-    fig.update_layout(legend=dict(x=0, y=-0.2, orientation="h"))
-    return fig
+    return finish(fig)
+
+
+#: The residual components drawn, one panel each: column of ``FitResult.residuals``, panel title.
+RESIDUAL_PARTS = (("dx", "Downrange"), ("dy", "Drift (right +)"), ("dz", "Height"))
+#: Room above the top panel for its title. [px]
+PANEL_TITLE_PX = 28
 
 
 def fit_residuals(fit, system: str = "SI") -> go.Figure:
-    """How well does the fitted model follow the tracks? Distance between model and observation."""
-    fig = base_figure("Fit residuals: model minus observed position", "Time [s]",
-                      _lbl("Residual distance", "length", system), height=420)
+    """How well does the fitted model follow the tracks? Model minus observed position along each
+    axis (signed: positive where the model is further downrange, further right or higher)."""
+    fig = base_figure("Fit residuals: model minus observed position", height=600)
+    fig.set_subplots(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.1,
+                     subplot_titles=[words for _, words in RESIDUAL_PARTS])
+    fig.update_annotations(font_size=FONT_SIZE - 1)
     for i, name in enumerate(fit.flights):
         r = fit.residuals[fit.residuals["flight"] == name]
-        fig.add_trace(go.Scatter(x=r["t"], y=_u(r["distance"].to_numpy(), "length", system), mode="markers",
-                                 name=name, marker=dict(size=6, color=colour(i))))
-    fig.update_yaxes(rangemode="tozero")
-    return fig
+        for row, (col, _) in enumerate(RESIDUAL_PARTS, start=1):
+            fig.add_trace(go.Scatter(x=r["t"], y=_u(r[col].to_numpy(), "length", system), mode="markers",
+                                     name=name, legendgroup=name, showlegend=row == 1,
+                                     marker=dict(size=6, color=colour(i))), row=row, col=1)
+    for row in (1, 2, 3):
+        fig.add_hline(y=0, line=dict(color="#777", width=1, dash="dot"), row=row, col=1)
+    # one axis title for the three panels, on the middle one
+    fig.update_yaxes(title_text=_lbl("Model minus observed", "length", system), row=2, col=1)
+    fig.update_xaxes(title_text="Time [s]", row=3, col=1)
+    return finish(fig, top_extra=PANEL_TITLE_PX)
 
 
 def fit_tracks_side(fit, tracks, system: str = "SI") -> go.Figure:
@@ -215,4 +237,4 @@ def fit_tracks_side(fit, tracks, system: str = "SI") -> go.Figure:
                                  mode="markers", name=f"{name} observed", marker=dict(size=6, color=colour(i), opacity=0.6)))
         fig.add_trace(go.Scatter(x=_u(m["x"].to_numpy(), "distance", system), y=_u(m["z"].to_numpy(), "length", system),
                                  mode="lines", name=f"{name} fitted", line=dict(width=LINE_WIDTH, color=colour(i))))
-    return fig
+    return finish(fig)

@@ -16,10 +16,13 @@ import plotly.graph_objects as go
 
 from liftcore import potential as pot
 from liftcore import units
-from liftcore.figures import PALETTE, SEQUENTIAL, band, base_figure
+from liftcore.figures import PALETTE, SEQUENTIAL, band, base_figure, finish
 
 BODY_FILL = "#9a9a9a"
 BODY_LINE = "#333333"
+#: Height of the square maps (streamlines, measured field) without their legend: a map in one
+#: of two columns is as wide as about this leaves it high. [px]
+MAP_HEIGHT_PX = 540
 #: Grid points per axis of the ideal-flow picture (enough for smooth lines, small to send).
 FLOW_GRID = 141
 
@@ -65,13 +68,17 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID, system:
     speed = np.hypot(u, w) / v
     psi = pot.stream_function(xx, yy, v, r, g) / (v * r)
     radius = _num(r, "length", system)
+    if res.spin_rad_s != 0.0:
+        spin = f"Spin {'clockwise' if res.spin_rad_s > 0 else 'counter-clockwise'}, spin ratio {res.spin_ratio:.3g}"
+    else:
+        spin = "No spin"
     fig = base_figure("Where the air goes: streamlines round the spinning cylinder",
-                      f"x / R (R = {radius}; stream flows left to right)", f"y / R (R = {radius})",
-                      height=600)
+                      f"x / R (R = {radius})<br>stream flows left to right", f"y / R (R = {radius})",
+                      height=MAP_HEIGHT_PX, subtitle=f"{spin}; colour: local speed")
     fig.add_trace(go.Heatmap(x=s, y=s, z=speed.astype(np.float32), colorscale=SEQUENTIAL, zmin=0.0,
                              zmax=3.0, name="speed",
-                             colorbar=dict(title=dict(text=f"speed /<br>free stream<br>({_num(v, 'speed', system)})"),
-                                           thickness=18),
+                             colorbar=dict(title=dict(text=f"speed / free stream ({_num(v, 'speed', system)})",
+                                                      side="right"), thickness=18),
                              hovertemplate="x/R %{x:.2f}, y/R %{y:.2f}<br>speed/free stream %{z:.2f}"
                                            "<extra></extra>"))
     finite = psi[np.isfinite(psi)]
@@ -103,9 +110,6 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID, system:
                                             "<extra></extra>")))
     sign = 1.0 if res.lift_per_span_n_m >= 0 else -1.0
     if res.spin_rad_s != 0.0:
-        spin_word = "clockwise" if res.spin_rad_s > 0 else "counter-clockwise"
-        fig.add_annotation(x=0.0, y=0.0, text=f"spin<br>{spin_word}", showarrow=False,
-                           font=dict(size=15, color="#ffffff"))
         fig.add_annotation(x=0.0, y=sign * min(half * 0.85, 2.6), ax=0.0, ay=sign * 1.15,
                            xref="x", yref="y", axref="x", ayref="y", showarrow=True, arrowhead=3,
                            arrowsize=1.4, arrowwidth=4, arrowcolor=PALETTE[1], text="lift",
@@ -116,8 +120,7 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID, system:
     fig.add_annotation(x=-half * 0.75, y=half * 0.78, text="stream", showarrow=False,
                        font=dict(size=15, color="#ffffff"))
     _equal_axes(fig, (-half, half), (-half, half))
-    fig.update_layout(legend=dict(orientation="h", y=-0.12, x=0.0))
-    return fig
+    return finish(fig)
 
 
 def surface_pressure_figure(res: pot.IdealCylinderResult, n: int = 361) -> go.Figure:
@@ -139,41 +142,39 @@ def surface_pressure_figure(res: pot.IdealCylinderResult, n: int = 361) -> go.Fi
                                  marker=dict(symbol="x-thin", size=18, color=PALETTE[1],
                                              line=dict(width=4, color=PALETTE[1]))))
     fig.update_xaxes(tickvals=[0, 45, 90, 135, 180, 225, 270, 315, 360], range=[0, 360])
-    fig.update_layout(legend=dict(orientation="h", y=-0.25, x=0.0), margin=dict(b=110))
-    return fig
+    return finish(fig)
 
 
 def pressure_check_figure(res: pot.IdealCylinderResult) -> go.Figure:
     """Lift and drag coefficients from the pressure integral beside Kutta-Joukowski."""
+    diff = res.pressure_lift_relative_difference
+    up = res.lift_coefficient >= 0
     fig = base_figure("Check: surface-pressure integral against Kutta-Joukowski",
-                      "", "coefficient on the diameter [-]")
-    labels = ["lift: Kutta-Joukowski<br>Γ / (R V)", "lift: surface-pressure<br>integral",
-              "drag: surface-pressure<br>integral"]
+                      "", "coefficient on the diameter [-]",
+                      subtitle=(f"Lift: relative difference {diff:.1e}; drag: "
+                                f"{res.drag_coefficient_from_pressure:.1e}. Both are round-off: they agree."))
+    # short lines, so the three labels stand upright side by side in a narrow chart
+    labels = ["lift from<br>Γ / (R V)", "lift from<br>pressure", "drag from<br>pressure"]
     vals = [res.lift_coefficient, res.lift_coefficient_from_pressure, res.drag_coefficient_from_pressure]
     fig.add_trace(go.Bar(x=labels, y=vals, marker_color=[PALETTE[0], PALETTE[2], PALETTE[1]],
                          text=[f"{v:.6g}" for v in vals], textposition="outside",
                          textfont=dict(size=18), cliponaxis=False, showlegend=False,
                          hovertemplate="%{x}: %{y:.10g}<extra></extra>"))
-    diff = res.pressure_lift_relative_difference
-    up = res.lift_coefficient >= 0
-    fig.add_annotation(xref="paper", yref="paper", x=0.99, y=0.99 if up else 0.01, xanchor="right",
-                       yanchor="top" if up else "bottom", showarrow=False, align="right",
-                       font=dict(size=16), bgcolor="rgba(255,255,255,0.9)",
-                       text=(f"lift: relative difference {diff:.1e}<br>"
-                             f"drag: {res.drag_coefficient_from_pressure:.1e}<br>"
-                             "both are round-off: they agree"))
     top = max(abs(res.lift_coefficient), 1.0)
-    fig.update_yaxes(range=[-0.12 * top, 1.6 * top] if up else [-1.6 * top, 0.12 * top],
+    fig.update_yaxes(range=[-0.12 * top, 1.3 * top] if up else [-1.3 * top, 0.12 * top],
                      zeroline=True, zerolinecolor="#444")
-    return fig
+    return finish(fig)
 
 
 def ideal_lift_figure(res: pot.IdealCylinderResult) -> go.Figure:
     """The ideal line CL = 2 pi SR, this case on it, and a plain note on real cylinders."""
     top = max(4.0, 1.25 * abs(res.spin_ratio))
     sr = np.linspace(-top if res.spin_ratio < 0 else 0.0, top, 201)
-    fig = base_figure("Ideal lift coefficient CL = 2π SR (real cylinders fall far below it)",
-                      "spin ratio SR = ωR / V [-]", "lift coefficient CL on the diameter [-]")
+    fig = base_figure("Ideal lift coefficient CL = 2π SR", "spin ratio SR = ωR / V [-]",
+                      "lift coefficient CL on the diameter [-]",
+                      subtitle=("Real cylinders fall far below this line: the boundary layer leaves the "
+                                "surface, so measured lift coefficients level off. Use measured "
+                                "coefficients for real forces."))
     fig.add_trace(go.Scatter(x=sr, y=pot.lift_coefficient_ideal(sr), mode="lines",
                              name="ideal flow, no-slip circulation", line=dict(color=PALETTE[0], width=4)))
     fig.add_trace(go.Scatter(x=[res.spin_ratio], y=[res.lift_coefficient], mode="markers",
@@ -181,17 +182,12 @@ def ideal_lift_figure(res: pot.IdealCylinderResult) -> go.Figure:
                                                            line=dict(width=2, color="#000"))))
     for s2 in ([2.0, -2.0] if res.spin_ratio < 0 else [2.0]):
         fig.add_vline(x=s2, line=dict(color="#777", dash="dot", width=2))
+    # the note sits left of SR = 2 at the top, where the line CL = 2 pi SR (through the origin and
+    # the top right) leaves the plot empty; this case's marker lies on the line
     fig.add_annotation(x=2.0, yref="paper", y=0.98, xanchor="right", yanchor="top", showarrow=False,
                        align="right", text="SR = 2: stagnation points <br>meet and leave the surface ",
                        font=dict(size=14, color="#444"))
-    fig.add_annotation(xref="paper", yref="paper", x=0.98, y=0.03, xanchor="right", yanchor="bottom",
-                       showarrow=False, align="left", bgcolor="rgba(255,255,255,0.9)",
-                       bordercolor=PALETTE[1], borderwidth=2, font=dict(size=15),
-                       text=("Real cylinders separate: the boundary<br>layer leaves the surface, "
-                             "so measured<br>lift coefficients fall far below this<br>line and level "
-                             "off. Use measured<br>coefficients for real forces."))
-    fig.update_layout(legend=dict(orientation="h", y=-0.18, x=0.0), margin=dict(b=100))
-    return fig
+    return finish(fig)
 
 
 # ----------------------------------------------------------------------------- measured field
@@ -213,9 +209,9 @@ def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19, system:
     xs, ys = L(field.x_m[::sx]), L(field.y_m[::sy])
     speed = _u(np.hypot(field.u_m_s, field.v_m_s)[::sx, ::sy].T, "speed", system)
     fig = base_figure(f"The velocity field and the loops ({len(res.loop_sizes_m)} integrated, 3 drawn)",
-                      f"x [{lu}]", f"y [{lu}]", height=640)
+                      f"x [{lu}]", f"y [{lu}]", height=MAP_HEIGHT_PX)
     fig.add_trace(go.Heatmap(x=xs, y=ys, z=speed.astype(np.float32), colorscale=SEQUENTIAL, name="speed",
-                             colorbar=dict(title=dict(text=f"speed<br>[{vu}]"), thickness=18),
+                             colorbar=dict(title=dict(text=f"speed [{vu}]", side="right"), thickness=18),
                              hovertemplate=f"x %{{x:.4g}} {lu}, y %{{y:.4g}} {lu}<br>speed %{{z:.3g}} {vu}"
                                            "<extra></extra>"))
     ax, ay = _stride(field.x_m.size, arrows), _stride(field.y_m.size, arrows)
@@ -260,8 +256,7 @@ def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19, system:
     bx, by = res.body_centre_m
     _body(fig, float(L(bx)), float(L(by)), float(L(res.body_radius_m)))
     _equal_axes(fig, L([x0, x1]), L([y0, y1]))
-    fig.update_layout(legend=dict(orientation="h", y=-0.12, x=0.0), margin=dict(b=120))
-    return fig
+    return finish(fig)
 
 
 def circulation_figure(res, system: str = "SI") -> go.Figure:
@@ -295,5 +290,4 @@ def circulation_figure(res, system: str = "SI") -> go.Figure:
     pad = max(0.05 * abs(est), 0.5 * (hi - lo), 1e-9)
     fig.update_yaxes(range=[lo - pad, hi + pad])
     fig.update_xaxes(range=[0.0, float(sizes.max()) * 1.05])
-    fig.update_layout(legend=dict(orientation="h", y=-0.28, x=0.0), margin=dict(b=130))
-    return fig
+    return finish(fig)

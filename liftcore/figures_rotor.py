@@ -10,7 +10,7 @@ import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
 from liftcore import units
-from liftcore.figures import FONT_SIZE, LINE_WIDTH, band, base_figure, colour
+from liftcore.figures import FONT_SIZE, LINE_WIDTH, band, base_figure, colour, finish, wrap
 
 #: Colour of the spread between coefficient sets, and of the theory line.
 SPREAD_COLOUR = "#56B4E9"
@@ -37,12 +37,12 @@ def _label(kind, system):
     return units.unit_label(kind, system)
 
 
+#: Room above the plot for one line of panel titles, and the gap under them. [px]
+PANEL_TITLE_PX = 30
+
+
 def _styled_subplots(title: str, height: int, **kw) -> go.Figure:
     fig = make_subplots(figure=base_figure(title, height=height), **kw)
-    fig.update_xaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5",
-                     zeroline=False, ticks="outside")
-    fig.update_yaxes(showline=True, linewidth=1.5, linecolor="#444", gridcolor="#e5e5e5",
-                     zeroline=False, ticks="outside")
     fig.update_annotations(font_size=FONT_SIZE)
     return fig
 
@@ -56,8 +56,8 @@ def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
     shaded, and the operating point marked."""
     attr, y_title, question = _WHICH[which]
     corrected = detail.setup.correct_aspect_ratio and which == "drag"
-    title = question + (" (induced drag for this rotor's aspect ratio)" if corrected else "")
-    fig = base_figure(title, "Spin ratio SR", y_title, height=430)
+    fig = base_figure(question, "Spin ratio SR", y_title, height=430,
+                      subtitle="With the induced drag of this rotor's aspect ratio" if corrected else "")
     real = [c for c in detail.comparisons if _is_real(c.coefficients)]
     # spread between the sets with data, on a common grid where at least two sets are defined
     top = max(c.curves.spin_ratio[-1] for c in real) if real else 0.0
@@ -107,16 +107,28 @@ def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
         fig.update_yaxes(range=[min(0.0, y_op), max(y_cap, y_op) * 1.15])
     if top > 0:  # the theory line runs on beyond the data; show the range the data cover
         fig.update_xaxes(range=[0.0, max(top, float(op.spin_ratio)) * 1.04])
-    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.18, x=0.0))
-    fig.update_layout(margin=dict(b=150))
-    return fig
+    return finish(fig)
+
+
+#: Compass labels of the polar charts: the side labels in two short lines, so two charts fit side by
+#: side in a 680 px handout with their labels apart.
+COMPASS_LABELS = ("0° bow", "45°", "90°<br>stbd", "135°", "180° stern", "-135°", "-90°<br>port", "-45°")
+#: Room outside the circle for the compass labels: left and right, above and below. [px]
+COMPASS_SIDE_PX = 60
+COMPASS_LABEL_PX = 32
+#: Gap between the two compass charts (fraction of the plot width: two side labels at 680 px).
+POLAR_GAP = 0.2
+#: Direction of the radial axis (0 = right, counter-clockwise): halfway from the bow to 45°. [°]
+RADIAL_ANGLE_DEG = 67.5
+POLAR_HEIGHT_PX = 560
 
 
 def polar_figure(detail, system: str = "SI") -> go.Figure:
     """Thrust and net power gain against the true wind angle at the current wind and ship speed,
     with the spread between the sets with data shaded and the current angle marked."""
-    fig = _styled_subplots("Thrust and net power gain around the compass (this wind and ship speed)",
-                           height=620, rows=1, cols=2, specs=[[{"type": "polar"}, {"type": "polar"}]],
+    fig = _styled_subplots("Thrust and net power gain around the compass", height=POLAR_HEIGHT_PX,
+                           rows=1, cols=2, specs=[[{"type": "polar"}, {"type": "polar"}]],
+                           horizontal_spacing=POLAR_GAP,
                            subplot_titles=(f"Thrust [{_label('large_force', system)}]",
                                            f"Net power gain [{_label('power', system)}]"))
     theta = detail.sweep_angles_deg
@@ -151,15 +163,20 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
                                       showlegend=col == 1, hoverinfo="skip", subplot=polar, meta=CONTEXT))
         fig.update_layout({polar: dict(
             angularaxis=dict(rotation=90, direction="clockwise", tickmode="array",
-                             tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
-                             ticktext=["0° bow", "45°", "90° stbd", "135°", "180° stern", "-135°",
-                                       "-90° port", "-45°"]),
-            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=45, tickangle=45,
-                            tickfont=dict(size=FONT_SIZE - 3)))})
-    for ann in fig.layout.annotations:  # lift the panel titles clear of the "0° bow" label
-        ann.update(y=ann.y + 0.1, yanchor="bottom")
-    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.1, x=0.0), margin=dict(b=120, t=150))
-    return fig
+                             tickvals=[0, 45, 90, 135, 180, 225, 270, 315], ticktext=COMPASS_LABELS),
+            # the radial labels run between the "0° bow" and "45°" labels, clear of both, and
+            # stand level (a tick angle equal to the axis angle)
+            radialaxis=dict(range=[rmin - pad, rmax + pad], angle=RADIAL_ANGLE_DEG,
+                            tickangle=RADIAL_ANGLE_DEG, nticks=5, tickfont=dict(size=FONT_SIZE - 3)))})
+    for ann in fig.layout.annotations:  # the panel titles clear of the "0° bow" label
+        ann.update(yanchor="bottom", yshift=COMPASS_LABEL_PX)
+    fig.update_layout(title_subtitle_text="At this true wind and ship speed",
+                      margin=dict(l=COMPASS_SIDE_PX, r=COMPASS_SIDE_PX))
+    return finish(fig, top_extra=PANEL_TITLE_PX + COMPASS_LABEL_PX, below_polar=COMPASS_LABEL_PX)
+
+
+#: Characters per line of the span chart's three panel titles (a third of a 680 px chart each).
+SPAN_PANEL_CHARS = 16
 
 
 def span_figure(detail, system: str = "SI") -> go.Figure:
@@ -167,10 +184,11 @@ def span_figure(detail, system: str = "SI") -> go.Figure:
     p = detail.span
     h_kind = "length"
     z = _disp(p.height_m, h_kind, system)
-    fig = _styled_subplots("How the wind changes along the rotor height", height=520, rows=1, cols=3,
+    fig = _styled_subplots("The wind along the rotor height", height=520, rows=1, cols=3,
                            shared_yaxes=True, horizontal_spacing=0.05,
-                           subplot_titles=(f"Wind speed [{_label('wind_speed', system)}]",
-                                           "Apparent wind angle [°]", "Spin ratio along the rotor"))
+                           subplot_titles=tuple(wrap(t, SPAN_PANEL_CHARS) for t in (
+                               f"Wind speed [{_label('wind_speed', system)}]", "Apparent wind angle [°]",
+                               "Spin ratio along the rotor")))
     fig.add_trace(go.Scatter(x=_disp(p.true_wind_speed_m_s, "wind_speed", system), y=z, mode="lines",
                              name="True wind", line=dict(color=colour(2), width=LINE_WIDTH)), row=1, col=1)
     fig.add_trace(go.Scatter(x=_disp(p.apparent_wind_speed_m_s, "wind_speed", system), y=z, mode="lines",
@@ -193,8 +211,8 @@ def span_figure(detail, system: str = "SI") -> go.Figure:
     fig.add_annotation(x=0.0, y=top, xref="x domain", yref="y", text="rotor top", showarrow=False,
                        xanchor="left", yanchor="bottom", font=dict(size=FONT_SIZE - 3))
     fig.update_yaxes(title_text=f"Height above the waterline [{_label(h_kind, system)}]", row=1, col=1)
-    fig.update_layout(legend=dict(orientation="h", yanchor="top", y=-0.14, x=0.0), margin=dict(b=110, t=100))
-    return fig
+    lines = max(a.text.count("<br>") + 1 for a in fig.layout.annotations if a.yref == "paper")
+    return finish(fig, top_extra=PANEL_TITLE_PX * lines)
 
 
 def all_figures(detail, system: str = "SI") -> tuple:

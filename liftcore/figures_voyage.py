@@ -11,7 +11,7 @@ import plotly.colors as pc
 import plotly.graph_objects as go
 
 from liftcore import units
-from liftcore.figures import DIVERGING, SEQUENTIAL, base_figure, colour
+from liftcore.figures import DIVERGING, SEQUENTIAL, base_figure, colour, finish
 from liftcore import voyage as vy
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
@@ -33,18 +33,23 @@ def _speed_class_labels(system: str) -> list[str]:
     return out
 
 
+#: Room above the rose for its top compass label. [px]
+ROSE_LABEL_PX = 30
+
+
 def wind_rose(t: vy.Tally, system: str = "SI") -> go.Figure:
     """Share of time at sea by wind direction sector and speed class (stacked)."""
     if t.rose_is_direction:
-        title = "Where the true wind comes from (share of time at sea)"
+        title = "Where the true wind comes from"
         ticks = dict(tickmode="array", tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
                      ticktext=["N", "NE", "E", "SE", "S", "SW", "W", "NW"])
     else:
-        title = "True wind relative to the bow (share of time at sea)"
+        title = "True wind relative to the bow"
+        # the side labels in two short lines keep the circle wide in a narrow chart
         ticks = dict(tickmode="array", tickvals=[0, 45, 90, 135, 180, 225, 270, 315],
-                     ticktext=["bow 0°", "45°", "starboard 90°", "135°", "stern 180°", "225°",
-                               "port 270°", "315°"])
-    fig = base_figure(title, height=520)
+                     ticktext=["bow 0°", "45°", "90°<br>stbd", "135°", "stern 180°", "225°",
+                               "270°<br>port", "315°"])
+    fig = base_figure(title, height=480, subtitle="Share of time at sea; colour: true wind speed")
     step = 360.0 / vy.ROSE_SECTORS
     theta = np.arange(vy.ROSE_SECTORS) * step
     share = 100.0 * t.rose / t.weight if t.weight > 0 else t.rose
@@ -55,10 +60,15 @@ def wind_rose(t: vy.Tally, system: str = "SI") -> go.Figure:
                                   name=lab, marker_color=colours[j], marker_line_width=0.5,
                                   marker_line_color="white",
                                   hovertemplate="%{theta:.0f}°: %{r:.2f} % of time<extra>" + lab + "</extra>"))
+    # the radial labels run between the first two compass labels, clear of both, and stand level
+    # (a tick angle equal to the axis angle); the outer ring leaves room past the longest bar so
+    # the last label stays inside the circle
+    top = float(np.max(share.sum(axis=1))) if share.size else 1.0
     fig.update_layout(polar=dict(angularaxis=dict(direction="clockwise", rotation=90, **ticks),
-                                 radialaxis=dict(ticksuffix=" %", angle=90, tickangle=90)),
-                      legend=dict(title="True wind speed"), margin=dict(l=40, r=40, t=80, b=40))
-    return fig
+                                 radialaxis=dict(ticksuffix=" %", angle=67.5, tickangle=67.5, nticks=4,
+                                                 range=[0.0, 1.25 * top if top > 0 else 1.0])),
+                      margin=dict(l=60, r=60))
+    return finish(fig, top_extra=ROSE_LABEL_PX, below_polar=ROSE_LABEL_PX)
 
 
 def gain_heat_map(t: vy.Tally, system: str = "SI") -> go.Figure:
@@ -69,7 +79,7 @@ def gain_heat_map(t: vy.Tally, system: str = "SI") -> go.Figure:
                       f"True wind speed [{_u('wind_speed', system)}]", height=520)
     used = np.nonzero(t.heat_weight.sum(axis=0))[0]
     if used.size == 0 or t.weight <= 0:
-        return fig
+        return finish(fig)
     top = int(used.max()) + 1
     w = t.heat_weight[:, :top]
     contribution = _show(t.heat_net[:, :top] / t.weight, "power", system)
@@ -82,17 +92,17 @@ def gain_heat_map(t: vy.Tally, system: str = "SI") -> go.Figure:
     scale = dict(colorscale=DIVERGING, zmid=0.0) if negative else dict(colorscale=SEQUENTIAL)
     fig.add_trace(go.Heatmap(
         x=vy.HEAT_ANGLES_DEG, y=speeds, z=z, customdata=np.dstack([share, gain.T]),
-        colorbar=dict(title=f"gain × share<br>of time [{pu}]"), **scale,
+        colorbar=dict(title=dict(text=f"gain × share of time [{pu}]", side="right")), **scale,
         hovertemplate=("angle %{x:.0f}°, wind %{y:.1f} " + _u("wind_speed", system)
                        + "<br>share of time %{customdata[0]:.2f} %<br>net gain there %{customdata[1]:.0f} "
                        + pu + "<br>contribution %{z:.2f} " + pu + "<extra></extra>")))
     fig.update_xaxes(range=[-5, 185], tickvals=list(range(0, 181, 30)))
-    return fig
+    return finish(fig)
 
 
 def operating_time(summary: vy.VoyageSummary) -> go.Figure:
     """Share of time at sea the rotors run freely, run at a limit, or stand still."""
-    fig = base_figure("How the rotors spend the time at sea", "Share of time at sea [%]", height=230)
+    fig = base_figure("How the rotors spend the time at sea", "Share of time at sea [%]", height=220)
     parts = (("running freely", summary.free_share, colour(2)),
              ("running at a limit", summary.limited_share, colour(4)),
              ("stopped", summary.stopped_share, "#999999"))
@@ -100,11 +110,10 @@ def operating_time(summary: vy.VoyageSummary) -> go.Figure:
         fig.add_trace(go.Bar(x=[100.0 * share], y=["rotors"], orientation="h", name=name,
                              marker_color=col, text=[f"{100 * share:.0f} %"], textposition="inside",
                              hovertemplate=name + ": %{x:.1f} %<extra></extra>"))
-    fig.update_layout(barmode="stack", legend=dict(orientation="h", y=-0.45, traceorder="normal"),
-                      margin=dict(t=60, b=90))
+    fig.update_layout(barmode="stack")
     fig.update_xaxes(range=[0, 100])
     fig.update_yaxes(showticklabels=False)
-    return fig
+    return finish(fig)
 
 
 def period_bars(df, label_column: str, title: str, labels=None, system: str = "SI") -> go.Figure:
@@ -112,7 +121,7 @@ def period_bars(df, label_column: str, title: str, labels=None, system: str = "S
     pu = _u("power", system)
     fig = base_figure(title, "", f"Mean net power gain at sea [{pu}]", height=420)
     if df is None or len(df) == 0:
-        return fig
+        return finish(fig)
     x = list(labels) if labels is not None else [str(v) for v in df[label_column]]
     y = _show(df["mean_net_power_w"].to_numpy(), "power", system)
     energy = _show(df["energy_saved_j"].to_numpy(), "energy", system)
@@ -121,7 +130,7 @@ def period_bars(df, label_column: str, title: str, labels=None, system: str = "S
                          hovertemplate=("%{x}: %{y:.0f} " + pu + "<br>%{customdata[0]:.1f} % of sea time"
                                         "<br>%{customdata[1]:.0f} " + _u("energy", system)
                                         + " of the yearly saving<extra></extra>")))
-    return fig
+    return finish(fig)
 
 
 def month_bars(df, system: str = "SI") -> go.Figure:
@@ -145,7 +154,7 @@ def sweep_savings(df, entered: dict, system: str = "SI", column: str = "annual_f
     y_title = "Money saved per year" if is_money else f"{title.split(' by ')[0]} [{unit}]"
     fig = base_figure(title, "Number of rotors", y_title, height=460)
     if df is None or len(df) == 0:
-        return fig
+        return finish(fig)
     for i, ((d, h), g) in enumerate(df.groupby(["diameter_m", "height_m"], sort=True)):
         g = g.sort_values("rotors")
         y = g[column].to_numpy() if is_money else _show(g[column].to_numpy(), kind, system)
@@ -160,7 +169,7 @@ def sweep_savings(df, entered: dict, system: str = "SI", column: str = "annual_f
                                  marker=dict(symbol="star", size=20, color="#000000"),
                                  hovertemplate="entered design: %{y:,.4g} " + unit + "<extra></extra>"))
     fig.update_xaxes(dtick=1)
-    return fig
+    return finish(fig)
 
 
 def sweep_payback(df, entered: dict, system: str = "SI") -> go.Figure:
@@ -168,7 +177,7 @@ def sweep_payback(df, entered: dict, system: str = "SI") -> go.Figure:
     fig = base_figure("Payback by rotor size and count", "Number of rotors", "Simple payback [years]",
                       height=460)
     if df is None or len(df) == 0:
-        return fig
+        return finish(fig)
     finite = df[np.isfinite(df["payback_years"])]
     for i, ((d, h), g) in enumerate(df.groupby(["diameter_m", "height_m"], sort=True)):
         g = g[np.isfinite(g["payback_years"])].sort_values("rotors")
@@ -184,4 +193,4 @@ def sweep_payback(df, entered: dict, system: str = "SI") -> go.Figure:
                                  hovertemplate="entered design: %{y:.1f} years<extra></extra>"))
     fig.update_xaxes(dtick=1)
     fig.update_yaxes(rangemode="tozero")
-    return fig
+    return finish(fig)

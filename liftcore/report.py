@@ -22,7 +22,7 @@ import plotly.graph_objects as go
 
 import liftcore
 from liftcore import units
-from liftcore.figures import PALETTE
+from liftcore.figures import LEGEND_ROW_PX, PALETTE, legend_entries, legend_rows, set_title
 from liftcore.inputs import Field
 from liftcore.scenario import Comparison, Scenario
 from liftcore.studies import Headline, StudyResult, format_number, run_study, study
@@ -37,8 +37,6 @@ REPORT_FIG_MAX_HEIGHT = 760
 #: Trace types that can be laid over each other from several options.
 OVERLAY_TYPES = ("scatter", "scattergl", "scatter3d", "scatterpolar", "bar")
 DASHES = ("solid", "dash", "dot", "dashdot", "longdash")
-#: Room for one more legend line under an overlaid chart. [px]
-LEGEND_LINE_PX = 28
 
 
 @dataclass(frozen=True)
@@ -236,7 +234,9 @@ def overlay_figure(runs: list[Run], system: str = "SI"):
     out = go.Figure(fig0)
     out.data = ()
     layout_title = f"{title0}: options compared"
-    out.update_layout(title_text=layout_title, showlegend=True)
+    meta = fig0.layout.meta if isinstance(fig0.layout.meta, dict) else {}
+    set_title(out, layout_title, meta.get("subtitle", ""), meta.get("top_extra", 0))
+    out.update_layout(showlegend=True)
     # annotations and shapes tied to data belong to one option; keep only paper-anchored ones
     out.layout.annotations = [a for a in (fig0.layout.annotations or ())
                               if a.xref in ("paper", None) and a.yref in ("paper", None)]
@@ -265,13 +265,11 @@ def overlay_figure(runs: list[Run], system: str = "SI"):
             out.add_trace(t)
     if any(t.type == "bar" for t in out.data):
         out.update_layout(barmode="group")
-    # a legend under the plot grows by a line for each entry the other options add
+    # the legend under the plot (house style) grows by the rows the other options add
     legend = out.layout.legend
-    if legend.y is not None and legend.y < 0 and legend.orientation in (None, "v"):
-        before = sum(1 for t in fig0.data if t.showlegend is not False and t.name)
-        add = LEGEND_LINE_PX * max(0, sum(1 for t in out.data if t.showlegend) - before)
-        out.update_layout(height=(out.layout.height or REPORT_FIG_HEIGHT) + add,
-                          margin=dict(b=(out.layout.margin.b or 0) + add))
+    if legend.yref == "container":
+        add = LEGEND_ROW_PX * max(0, legend_rows(legend_entries(out)) - legend_rows(legend_entries(fig0)))
+        out.update_layout(height=(out.layout.height or REPORT_FIG_HEIGHT) + add)
     # a range fitted to the first option's data would cut the others off: let every axis fit all
     out.for_each_xaxis(_fit_all_options)
     out.for_each_yaxis(_fit_all_options)
