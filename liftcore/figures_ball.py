@@ -71,10 +71,20 @@ def trajectory_3d(flights, system: str = "SI") -> go.Figure:
     return finish(fig)
 
 
-def side_view(flights, system: str = "SI") -> go.Figure:
-    """How high and how far? Height against distance downrange."""
+def _num(value, kind, system, digits: int = 3) -> str:
+    return units.quantity_text(value, kind, system, digits)
+
+
+#: Length of the drawn descent direction at the landing point, as a share of the carry.
+DESCENT_RAY = 0.12
+
+
+def side_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
+    """How high and how far? Height against distance downrange. With ``numbers`` the first
+    flight carries its results on the picture: the peak height at the apex, the carry at the
+    landing point, and the descent angle drawn where it lands (with the landing speed)."""
     fig = base_figure("Side view: height against distance", _lbl("Downrange", "distance", system),
-                      _lbl("Height", "length", system), height=420)
+                      _lbl("Height", "length", system), height=440)
     for i, f in enumerate(flights):
         p = f.path
         fig.add_trace(go.Scatter(x=_u(p["x_m"], "distance", system), y=_u(p["z_m"], "length", system),
@@ -84,21 +94,65 @@ def side_view(flights, system: str = "SI") -> go.Figure:
                                  mode="markers", marker=dict(size=10, color=colour(i)), showlegend=False,
                                  hovertemplate="peak %{y:.1f} " + units.unit_label("length", system)
                                                + "<extra></extra>"))
+    if numbers and flights:
+        _numbers_on_side_view(fig, flights[0], system)
     fig.update_yaxes(rangemode="tozero")
     return finish(fig)
 
 
-def top_view(flights, system: str = "SI") -> go.Figure:
-    """How much does it curve? Drift to the side against distance downrange (seen from above)."""
+def _numbers_on_side_view(fig: go.Figure, f, system: str) -> None:
+    p = f.path
+    k = int(np.argmax(p["z_m"]))
+    x_peak, z_peak = _u(p["x_m"][k], "distance", system), _u(p["z_m"][k], "length", system)
+    x_land = float(_u(p["x_m"][-1], "distance", system))  # the path ends where it lands
+    # the descent direction drawn back from the landing point, and a level line to read it on
+    a = np.radians(f.descent_angle_deg)
+    ray_x = DESCENT_RAY * max(abs(x_land), 1e-9)
+    z_scale = float(_u(1.0, "length", system) / _u(1.0, "distance", system))
+    ray_z = ray_x * np.tan(a) * z_scale
+    fig.add_trace(go.Scatter(x=[x_land - ray_x, x_land], y=[ray_z, 0.0], mode="lines", showlegend=False,
+                             line=dict(color="#222", width=2, dash="dash"), hoverinfo="skip", meta="context"))
+    fig.add_trace(go.Scatter(x=[x_land - ray_x, x_land], y=[0.0, 0.0], mode="lines", showlegend=False,
+                             line=dict(color="#222", width=2), hoverinfo="skip", meta="context"))
+    font = dict(size=FONT_SIZE - 1, color="#111")
+    box = dict(bgcolor="rgba(255,255,255,0.85)", bordercolor="#999", borderwidth=1, borderpad=3)
+    fig.add_annotation(x=x_peak, y=z_peak, text=f"peak height <b>{_num(f.peak_height_m, 'length', system)}</b>",
+                       showarrow=True, arrowhead=0, ax=0, ay=-30, yanchor="bottom", font=font, **box)
+    fig.add_annotation(x=x_land, y=0.0, xref="x", yref="y", showarrow=True, arrowhead=2, ax=-20, ay=-70,
+                       text=(f"carry <b>{_num(f.carry_m, 'distance', system)}</b><br>"
+                             f"down at <b>{f.descent_angle_deg:.0f}°</b>, "
+                             f"{_num(f.landing_speed_m_s, 'ball_speed', system)}"),
+                       xanchor="right", yanchor="bottom", align="right", font=font, **box)
+    fig.update_yaxes(range=[0.0, z_peak * 1.32])  # room above the apex for its label
+
+
+def top_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
+    """How much does it curve? Drift to the side against distance downrange (seen from above).
+    With ``numbers`` the first flight's drift is written at its landing point."""
     fig = base_figure("Top view: drift against distance", _lbl("Downrange", "distance", system),
-                      _lbl("Drift, right +", "distance", system), height=420)
+                      _lbl("Drift, right +", "distance", system), height=440)
     for i, f in enumerate(flights):
         p = f.path
         fig.add_trace(go.Scatter(x=_u(p["x_m"], "distance", system), y=_u(p["lateral_m"], "distance", system),
                                  mode="lines", name=f.label, line=dict(width=LINE_WIDTH, color=colour(i))))
     fig.add_hline(y=0, line=dict(color="#777", width=1, dash="dot"))
-    # right positive reads naturally with "right" drawn downward when looking downrange from above
-    fig.update_yaxes(autorange="reversed")
+    if numbers and flights:
+        f = flights[0]
+        x_land, y_land = _u(f.path["x_m"][-1], "distance", system), _u(f.path["lateral_m"][-1], "distance", system)
+        side = "right" if f.lateral_m > 0 else "left" if f.lateral_m < 0 else ""
+        drift = _num(abs(f.lateral_m), "distance", system)
+        # below the curve's end as seen (right drift is drawn downward), clear of the path
+        fig.add_annotation(x=x_land, y=y_land, showarrow=True, arrowhead=2, ax=-60,
+                           ay=45 if f.lateral_m >= 0 else -45,
+                           text=f"drift <b>{drift}{' ' + side if side else ''}</b>",
+                           xanchor="right", font=dict(size=FONT_SIZE - 1, color="#111"),
+                           bgcolor="rgba(255,255,255,0.85)", bordercolor="#999", borderwidth=1, borderpad=3)
+        span = max(abs(float(np.max(_u(f.path["lateral_m"], "distance", system)))),
+                   abs(float(np.min(_u(f.path["lateral_m"], "distance", system)))), 1.0)
+        fig.update_yaxes(range=[1.6 * span, -1.6 * span])  # room for the label; right drawn down
+    else:
+        # right positive reads naturally with "right" drawn downward when looking downrange from above
+        fig.update_yaxes(autorange="reversed")
     return finish(fig)
 
 

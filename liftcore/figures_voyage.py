@@ -147,11 +147,14 @@ def _option_name(d, h, system) -> str:
 
 
 def sweep_savings(df, entered: dict, system: str = "SI", column: str = "annual_fuel_saved_kg",
-                  kind: str = "fuel_mass", title: str = "Fuel saved per year by rotor size and count") -> go.Figure:
-    """Yearly saving against the number of rotors, one line per size; the entered option starred."""
+                  kind: str = "fuel_mass", title: str = "Fuel saved per year by rotor size and count",
+                  currency: str = "") -> go.Figure:
+    """Yearly saving against the number of rotors, one line per size; the entered option starred
+    (money in ``currency``)."""
     is_money = kind == "money"
     unit = "" if is_money else _u(kind, system)
-    y_title = "Money saved per year" if is_money else f"{title.split(' by ')[0]} [{unit}]"
+    y_title = (f"Money saved per year{f' [{currency}]' if currency else ''}" if is_money
+               else f"{title.split(' by ')[0]} [{unit}]")
     fig = base_figure(title, "Number of rotors", y_title, height=460)
     if df is None or len(df) == 0:
         return finish(fig)

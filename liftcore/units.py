@@ -169,8 +169,14 @@ def quantity_text(value, kind: str, system: str, digits: int = 3) -> str:
     """A core value of ``kind`` as text in ``system``, with its unit: ``"150 kW"``, ``"201 hp"``."""
     if kind in ("ratio", "money"):
         return format_number(value, digits)
-    unit = unit_label(kind, system)
-    return f"{format_number(to_display(value, kind, system), digits)}{' ' + unit if unit else ''}"
+    return with_unit(format_number(to_display(value, kind, system), digits), unit_label(kind, system))
+
+
+def with_unit(number: str, unit: str) -> str:
+    """``"46°"``, ``"12 kn"``: a number and its unit as written (degrees stick to the number)."""
+    if not unit:
+        return number
+    return f"{number}{unit}" if unit == "°" else f"{number} {unit}"
 
 
 #: An input is shown with the fewest digits that keep it within this relative error: 6.17 m/s

@@ -16,6 +16,17 @@ from liftcore.studies import run_study
 PAGE = str(Path(__file__).resolve().parents[1] / "views" / "flight.py")
 
 
+def summary_shown(at) -> str:
+    """The sentence above the flight picture (every headline of the flight)."""
+    return next(m.value for m in at.markdown if "lc-summary" in m.value)
+
+
+def expected_summary(values: dict, system: str = "SI") -> str:
+    from views.results import bold_html
+
+    return f"<p class='lc-summary'>{bold_html(study.summary(run_study('flight', values), system))}</p>"
+
+
 def metric(at, label):
     for m in at.metric:
         if m.label == label:
@@ -34,7 +45,9 @@ def page():
 def test_page_renders_with_title_headlines_and_cautions(page):
     assert page.title[0].value == "Spinning ball flight"
     r = run_study("flight", {"dispersion_n": 0})
-    assert metric(page, "Carry") == r.headline("carry_m").text("SI")
+    assert summary_shown(page) == expected_summary({"dispersion_n": 0})
+    assert r.headline("carry_m").text("SI") in summary_shown(page)
+    assert len(page.metric) == 0  # the numbers are in the sentence and on the picture, no tiles
     assert any("not for safety distances" in i.value for i in page.info)
 
 
@@ -48,10 +61,7 @@ def test_changing_inputs_matches_the_core(page):
     # choosing golf set its typical launch (a drive from the ground); four inputs changed since
     values = {**typical_launch("golf")[1], "ball": "golf", "speed_m_s": 65.0, "elevation_deg": 12.0,
               "spin_rpm": 2800.0, "spin_axis_deg": 15.0, "dispersion_n": 0}
-    r = run_study("flight", values)
-    for key, label in (("carry_m", "Carry"), ("lateral_m", "Drift to the side (right +)"),
-                       ("peak_height_m", "Peak height")):
-        assert metric(page, label) == r.headline(key).text("SI")
+    assert summary_shown(page) == expected_summary(values)
     # the sweep tab's best grid point is the core sweep's best point
     page.session_state["flight_tab"] = "Launch sweep"
     page.run()
@@ -83,8 +93,7 @@ def test_a_new_ball_gets_its_typical_launch_and_the_old_one_stays_reachable():
     assert launch_of(at) == drive
     assert at.number_input(key="w:flight:speed_m_s:SI").value == 70.0  # the box shows it too
     assert any("common practice" in i.value and what in i.value for i in at.info)
-    r = run_study("flight", {**drive, "ball": "golf", "dispersion_n": 0})
-    assert metric(at, "Carry") == r.headline("carry_m").text("SI")
+    assert summary_shown(at) == expected_summary({**drive, "ball": "golf", "dispersion_n": 0})
     at.button(key="flight:back_to_my_launch").click().run()
     assert launch_of(at) == mine and at.session_state["flight:ball"] == "golf"
     # with "keep my launch" on, another ball keeps what is typed
@@ -100,8 +109,9 @@ def test_imperial_units_and_second_flight():
     at.selectbox(key="w:flight:compare_with:imperial").set_value("altitude").run()
     assert not at.exception, at.exception
     r = run_study("flight", {"compare_with": "altitude", "dispersion_n": 0})
-    assert metric(at, "Carry") == r.headline("carry_m").text("imperial")
-    assert metric(at, "Carry").endswith("yd")
+    assert summary_shown(at) == expected_summary({"compare_with": "altitude", "dispersion_n": 0}, "imperial")
+    assert f"<b>{r.headline('carry_m').text('imperial')}</b>" in summary_shown(at)
+    assert r.headline("carry_m").text("imperial").endswith("yd")
     table = at.dataframe[0].value
     # the second flight is named in the units shown (1600 m, the default other altitude, in feet)
     feet = units.to_display(1600.0, "altitude", "imperial")
@@ -142,7 +152,10 @@ def test_overlay_button_pins_flights_to_the_charts_in_the_units_shown():
     assert_allclose(table["Carry [yd]"], [units.to_display(now.headline("carry_m").value, "distance", "imperial"),
                                           units.to_display(pinned.headline("carry_m").value, "distance", "imperial")],
                     atol=0.006)
-    assert len(chart(at, "Side view: height against distance")["data"]) == 4  # two paths, two peaks
+    side = chart(at, "Side view: height against distance")["data"]
+    # two paths with their peaks, and this flight's descent drawn at its landing (context lines)
+    assert len([t for t in side if t.get("meta") != "context"]) == 4
+    assert len([t for t in side if t.get("meta") == "context"]) == 2
     # the overlay is not a kept option of the Compare page
     assert at.session_state["_lc:options"] == []
     at.button(key="flight_overlay_clear").click().run()

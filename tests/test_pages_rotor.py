@@ -67,7 +67,7 @@ def test_changing_ship_speed_and_wind_matches_the_core(page):
     op = core_op({"ship_speed_m_s": 4.0, "true_wind_speed_m_s": 14.0, "true_wind_angle_deg": -120.0})
     assert metric(page, "Net power gain") == f"{format_number(op.net_power_w / 1000)} kW"
     assert metric(page, "Side force") == f"{format_number(op.side_force_n / 1000)} kN"
-    assert metric(page, "Apparent wind angle") == f"{format_number(float(op.apparent_wind_angle_deg))} °"
+    assert metric(page, "Apparent wind angle") == f"{format_number(float(op.apparent_wind_angle_deg))}°"
 
 
 def test_fixed_rotor_speed_shows_and_uses_the_rpm_input(page):

@@ -17,7 +17,7 @@ from liftcore.studies import flight as study
 from liftcore.studies import format_number
 from views.inputs import (input_widget, render_inputs, set_values, state_key, unit_system,
                           widget_changed)
-from views.results import (cached, general_warnings, number_text, run_for_page, show_figure, stop_for,
+from views.results import (bold_html, cached, general_warnings, number_text, run_for_page, show_figure, stop_for,
                            show_headlines, show_sources_and_cautions, show_warnings, study_figures,
                            study_tables, table_in_units)
 from views.tools import page_tools
@@ -109,7 +109,14 @@ def _sidebar() -> dict:
 def _flight_tab(result, values):
     system = unit_system()
     d = result.detail
-    show_headlines(result, columns=3)
+    # every result in one sentence, and on the picture itself (no tile grid)
+    with st.container(key="flight_summary"):
+        st.markdown(f"<p class='lc-summary'>{bold_html(study.summary(result, system))}</p>",
+                    unsafe_allow_html=True)
+        heads = {h.key for h in result.headlines}
+        for w in result.warnings:
+            if w.subject in heads:
+                st.caption(f"⚠ {w.text(system)}")
     air, b = d.air, d.setup.ball
     st.caption(f"{b.name}: {number_text(b.diameter_m, 'small_length')}, {number_text(b.mass_kg, 'small_mass')}; "
                f"model: {d.setup.model.label()}. Air: {number_text(d.setup.density_kg_m3, 'density', 4)}, "

@@ -38,9 +38,17 @@ NUMBER_FORMAT = "%.7g"
 
 # ----------------------------------------------------------------------------- unit switch
 #: Page style for a shared screen: the title close under the (transparent) top bar instead of
-#: 6 rem down, so a 720 px projector shows results, not white space.
+#: 6 rem down, so a 720 px projector shows results, not white space; headline labels and values
+#: wrap (and values shrink a little on narrow screens) instead of being cut with "…".
 PAGE_CSS = """<style>
 [data-testid="stMainBlockContainer"] { padding-top: 2.5rem; }
+[data-testid="stMetricLabel"] .stMarkdownEllipsis p,
+[data-testid="stMetricValue"] .stMarkdownEllipsis p {
+  white-space: normal; overflow: visible; text-overflow: clip; overflow-wrap: anywhere; }
+[data-testid="stMetricLabel"] .stMarkdownEllipsis,
+[data-testid="stMetricValue"] .stMarkdownEllipsis { overflow: visible; }
+[data-testid="stMetricValue"] { font-size: clamp(1.6rem, 2.2vw, 2.25rem); line-height: 1.2; }
+p.lc-summary { font-size: 1.45rem; line-height: 1.45; margin: 0.2rem 0 0.6rem 0; }
 </style>"""
 
 

@@ -249,6 +249,15 @@ def show_sources_and_cautions(study) -> None:
         st.info(c, icon=":material/health_and_safety:")
 
 
+def bold_html(markdown: str) -> str:
+    """A sentence made by a study with ``**`` round its numbers, as HTML: ``<b>`` for the
+    numbers, everything else escaped."""
+    import html
+    import re
+
+    return re.sub(r"\*\*(.+?)\*\*", r"<b>\1</b>", html.escape(markdown))
+
+
 def units_caption() -> str:
     """One sentence saying which units the tables are in."""
     return (f"In the units chosen at the top of the sidebar ({UNIT_LABELS[unit_system()]}); the "

@@ -46,29 +46,31 @@ def _coefficient_inputs(values: dict) -> dict:
 
 
 def _compare_table(result, system: str) -> pd.DataFrame:
+    """The operating point with every set, numbers as text in ``system`` (a static table that
+    shows every column on a narrow screen)."""
+    t = units.quantity_text
     rows = []
     for _, r in result.tables["coefficient_sets"].iterrows():
         rows.append({
             "Coefficient set": ("▶ " if r["chosen"] else "") + r["short"],
             "Kind": r["kind"],
-            "Spin ratio": round(float(r["spin_ratio"]), 2),
-            f"Rotor speed [{units.unit_label('rotation', system)}]": round(float(r["rpm"]), 1),
-            f"Thrust [{units.unit_label('large_force', system)}]":
-                round(float(units.to_display(r["thrust_n"], "large_force", system)), 1),
-            f"Spin power [{units.unit_label('power', system)}]":
-                round(float(units.to_display(r["spin_power_w"], "power", system)), 1),
-            f"Net power gain [{units.unit_label('power', system)}]":
-                round(float(units.to_display(r["net_power_w"], "power", system)), 1),
+            "Spin ratio": format_number(float(r["spin_ratio"])),
+            "Rotor speed": t(float(r["rpm"]), "rotation", system),
+            "Thrust": t(float(r["thrust_n"]), "large_force", system),
+            "Spin power": t(float(r["spin_power_w"]), "power", system),
+            "Net power gain": t(float(r["net_power_w"]), "power", system),
         })
-    return pd.DataFrame(rows)
+    return pd.DataFrame(rows).set_index("Coefficient set")
 
 
-def _sets_provenance(result) -> pd.DataFrame:
+def _sets_provenance(result) -> None:
+    """Where each set comes from: one short paragraph per set (long sources read as text)."""
     t = result.tables["coefficient_sets"]
-    return pd.DataFrame({"Coefficient set": t["short"], "Kind": t["kind"],
-                         "Tested aspect ratio H/D": [("2-D" if v == float("inf") else f"{v:g}") for v in t["aspect_ratio"]],
-                         "End-plate ratio": t["end_plate_ratio"], "Spin ratios": t["sr_range"],
-                         "Reynolds numbers": t["reynolds_range"], "Source": t["source"]})
+    for _, r in t.iterrows():
+        ar = "2-D" if r["aspect_ratio"] == float("inf") else f"{r['aspect_ratio']:g}"
+        st.markdown(f"**{r['short']}** — {r['kind']}; tested H/D {ar}, end plates "
+                    f"{r['end_plate_ratio']:g}; spin ratios {r['sr_range']}; Reynolds numbers "
+                    f"{r['reynolds_range']}.  \n{r['source']}")
 
 
 # ============================================================================ page
@@ -127,9 +129,9 @@ def _sets_tab():
         results.show_figure(figs[title], key=f"rotor:fig:{title}")
     st.markdown("**The same operating point with every set** — the spread is the uncertainty of the "
                 "aerodynamic data, not of the wind.")
-    st.dataframe(_compare_table(result, system), hide_index=True, width="stretch")
+    st.table(_compare_table(result, system))
     st.markdown("**Where each set comes from**")
-    st.table(_sets_provenance(result).set_index("Coefficient set"))  # wraps long sources
+    _sets_provenance(result)
 
 
 def _polar_tab():

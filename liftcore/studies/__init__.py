@@ -84,7 +84,7 @@ class Headline:
     def text(self, system: str = "SI") -> str:
         v, u = self.shown(system)
         number = "0" if self.below_resolution(system) else format_number(v, self.digits)
-        return f"{number}{(' ' + u) if u else ''}"
+        return units.with_unit(number, u)
 
     def note(self, system: str = "SI") -> str:
         """What to say under the number: ``resolution_note`` when it shows as 0, else nothing."""

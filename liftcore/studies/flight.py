@@ -485,6 +485,20 @@ def flight_figures(flights, disp=None, system: str = "SI", sw=None, values=None)
     return Charts(figs)
 
 
+def summary(result: StudyResult, system: str = "SI") -> str:
+    """One sentence with every headline of the flight, in ``system``'s units (``**`` marks the
+    numbers): what the page writes above the flight picture and the handout under its title."""
+    f = result.detail.flights[0]
+    h = {x.key: x.text(system) for x in result.headlines}
+    side = ("right of" if f.lateral_m > 0 else "left of" if f.lateral_m < 0 else "on")
+    drift = units.quantity_text(abs(f.lateral_m), "distance", system)
+    where = f"**{drift}** {side}" if f.lateral_m else "on"
+    return (f"The {result.detail.setup.ball.name.lower()} carries **{h['carry_m']}** along the target "
+            f"line, peaks at **{h['peak_height_m']}**, stays up **{h['flight_time_s']}** and lands "
+            f"{where} the line at **{h['landing_speed_m_s']}**, coming down at "
+            f"**{h['descent_angle_deg']}**.")
+
+
 def display_flights(result: StudyResult, system: str) -> tuple:
     """The flights of ``result`` with the second flight's name in ``system``'s units."""
     flights = list(result.detail.flights)

@@ -27,7 +27,7 @@ from liftcore.air import air_inputs
 from liftcore.constants import CO2_FACTOR_T_PER_T, KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number, text
-from liftcore.studies import Charts, Headline, StudyResult, quantity_table, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, column_label, quantity_table, table_in_units
 from liftcore.validity import ModelWarning
 
 KIND = "voyage"
@@ -425,7 +425,7 @@ def figures(d: VoyageDetail, values: dict, system: str = "SI") -> Charts:
         if values["fuel_price_per_t"] > 0 or values["carbon_price_per_t_co2"] > 0:
             out.append(("Design options: money", lambda: fv.sweep_savings(
                 d.sweep, entered, system, "annual_cost_saved", "money",
-                "Money saved per year by rotor size and count")))
+                "Money saved per year by rotor size and count", values.get("currency", ""))))
         if values["installed_cost"] > 0:
             out.append(("Design options: payback", lambda: fv.sweep_payback(d.sweep, entered, system)))
     return Charts(out)
@@ -498,7 +498,11 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
     for key, (label, kind) in SUMMARY_UNITS.items():
         v = getattr(s, key)
         rows.append((label, 100.0 * v if kind == "percent" else v, kind))
-    out = {"summary": quantity_table(rows, system)}
+    summary = quantity_table(rows, system)
+    currency = result.inputs.get("currency", "")
+    money = [kind == "money" for _, _, kind in rows]
+    summary.loc[money, "unit"] = currency  # money carries its currency
+    out = {"summary": summary}
     for name, df in result.tables.items():
         if name == "summary":
             continue
@@ -508,7 +512,9 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
             if c in df.columns:
                 df[c] = 100.0 * df[c]
                 kinds[c] = "percent"
-        out[name] = table_in_units(df, kinds, system).rename(columns=lambda c: c.replace("co2", "CO₂"))
+        money_cols = {column_label(c) for c, k in kinds.items() if k == "money"}
+        out[name] = table_in_units(df, kinds, system).rename(
+            columns=lambda c: (f"{c} [{currency}]" if c in money_cols and currency else c).replace("co2", "CO₂"))
     return out
 
 
