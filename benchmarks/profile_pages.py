@@ -89,11 +89,13 @@ class Hooks:
         from streamlit.runtime.scriptrunner import script_runner as sr
 
         import liftcore.units as units
-        import views.common as common
+        import views.inputs as inputs
+        import views.results as results
+        import views.tools as tools
         from liftcore import studies
 
         mod = studies.study(kind)
-        self.wrap(common, "run_study", "study run (run_study)")
+        self.wrap(results, "run_study", "study run (run_study)")
         if hasattr(mod, "figures_in_units"):
             self.wrap(mod, "figures_in_units", "figures_in_units")
         import streamlit
@@ -104,10 +106,10 @@ class Hooks:
         self.wrap(plotly.io, "to_json", "  of which plotly.io.to_json")
         self.wrap(streamlit, "dataframe", "st.dataframe")
         self.wrap(ArrowMixin, "dataframe", "st.dataframe")
-        self.wrap(common, "render_inputs", "sidebar: render_inputs")
-        self.wrap(common, "input_widget", "  input_widget")
-        self.wrap(common, "page_tools", "page_tools (save/share/keep)")
-        self.wrap(common, "show_headlines", "show_headlines")
+        self.wrap(inputs, "render_inputs", "sidebar: render_inputs")
+        self.wrap(inputs, "input_widget", "  input_widget")
+        self.wrap(tools, "page_tools", "page_tools (save/share/keep)")
+        self.wrap(results, "show_headlines", "show_headlines")
         for fn in ("to_display", "from_display", "unit_label"):
             self.wrap(units, fn, "unit conversions (liftcore.units)")
         # figure building: every function of the topic figure modules (one label, so nested

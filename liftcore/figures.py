@@ -110,8 +110,9 @@ def base_figure(title: str, x_title: str = "", y_title: str = "", height: int = 
     """An empty figure with the house style: large fonts, thick lines, unit-labelled axes, the
     legend in rows under the plot. ``height`` is the chart without its legend (see :func:`finish`);
     ``subtitle`` holds what the title leaves out (the model, a caution)."""
-    fig = go.Figure()
-    fig.update_layout(
+    # One Figure(layout=...) call: Plotly checks a layout given whole several times faster than
+    # the same properties set by update_layout.
+    return go.Figure(layout=dict(
         title=dict(text=title, font=dict(size=TITLE_SIZE), x=0.0, xref="container", xanchor="left",
                    y=1.0, yref="container", yanchor="top", pad=dict(t=TITLE_TOP_PX, l=2),
                    subtitle=dict(text=subtitle)),
@@ -123,10 +124,9 @@ def base_figure(title: str, x_title: str = "", y_title: str = "", height: int = 
                     xref="container", x=0.0, xanchor="left", yref="container", y=0.0, yanchor="bottom",
                     traceorder="normal"),
         hoverlabel=dict(font_size=FONT_SIZE - 1),
-    )
-    fig.update_xaxes(title_text=x_title)
-    fig.update_yaxes(title_text=y_title)
-    return fig
+        xaxis=dict(title=dict(text=x_title)),
+        yaxis=dict(title=dict(text=y_title)),
+    ))
 
 
 def legend_entries(fig: go.Figure) -> list[str]:
@@ -220,8 +220,12 @@ def set_title(fig: go.Figure, title: str, subtitle: str = "", top_extra: int = 0
     lift = round(CAP_SHIFT_EM * TITLE_SIZE) if lines > 1 else 0
     meta = dict(fig.layout.meta) if isinstance(fig.layout.meta, dict) else {}
     meta.update(title=title, subtitle=subtitle, top_extra=top_extra)
-    fig.update_layout(title_text=text, title_subtitle_text="", title_pad_t=TITLE_TOP_PX + lift,
-                      margin_t=top_margin(lines) + top_extra, meta=meta)
+    layout = fig.layout  # properties set one by one: far cheaper than update_layout
+    layout.title.text = text
+    layout.title.subtitle.text = ""
+    layout.title.pad.t = TITLE_TOP_PX + lift
+    layout.margin.t = top_margin(lines) + top_extra
+    layout.meta = meta
     return fig
 
 
@@ -253,15 +257,16 @@ def finish(fig: go.Figure, top_extra: int = 0, below_polar: int = 0) -> go.Figur
     else:
         title = fig.layout.title
         set_title(fig, title.text or "", (title.subtitle.text if title.subtitle else "") or "", top_extra)
-    fig.for_each_xaxis(lambda ax: ax.update(title_text=wrap(ax.title.text or "", AXIS_TITLE_CHARS)))
-    fig.for_each_yaxis(lambda ax: ax.update(title_text=wrap(ax.title.text or "", AXIS_TITLE_CHARS)))
+    for ax in list(fig.select_xaxes()) + list(fig.select_yaxes()):
+        if ax.title.text:
+            ax.title.text = wrap(ax.title.text, AXIS_TITLE_CHARS)
     height = fig.layout.height or 460
     if below_polar:
         plot_px = height - fig.layout.margin.t - (fig.layout.margin.b or 0)
         fig.for_each_polar(lambda p: p.update(domain_y=[min(below_polar / plot_px, 0.4), 1.0]))
     names = legend_entries(fig)
     if names and fig.layout.showlegend is not False:
-        fig.update_layout(height=height + LEGEND_ROW_PX * legend_rows(names) + LEGEND_PAD_PX)
+        fig.layout.height = height + LEGEND_ROW_PX * legend_rows(names) + LEGEND_PAD_PX
     return fig
 
 
