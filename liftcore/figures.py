@@ -70,9 +70,9 @@ def _house_template() -> go.layout.Template:
 
 
 HOUSE_TEMPLATE = _house_template()
-#: The house template is Plotly's default for every figure made once liftcore.figures is imported:
-#: a default template is attached without being validated again, while ``template=`` on each
-#: figure costs about 18 ms a chart (most of a page's chart time).
+#: The house template is Plotly's default for the figures made here (base_figure sees that it
+#: stays so): a default template is attached without being validated again, while
+#: ``template=`` on each figure costs about 18 ms a chart (most of a page's chart time).
 pio.templates["liftcore"] = HOUSE_TEMPLATE
 pio.templates.default = "liftcore"
 
@@ -110,6 +110,8 @@ def base_figure(title: str, x_title: str = "", y_title: str = "", height: int = 
     """An empty figure with the house style: large fonts, thick lines, unit-labelled axes, the
     legend in rows under the plot. ``height`` is the chart without its legend (see :func:`finish`);
     ``subtitle`` holds what the title leaves out (the model, a caution)."""
+    if pio.templates.default != "liftcore":  # importing Streamlit's chart module resets it
+        pio.templates.default = "liftcore"
     # One Figure(layout=...) call: Plotly checks a layout given whole several times faster than
     # the same properties set by update_layout.
     return go.Figure(layout=dict(

@@ -204,12 +204,14 @@ def test_flow_page_in_imperial_converts_the_surface_table_and_names_the_radius_i
     at.session_state["unit_system"] = "imperial"
     at.run()
     assert not at.exception
+    stream = chart_specs(at)[0]  # the first tab: the flow and its pressure
+    at.session_state["flow_tab"] = "Surface table (every 5°)"
+    at.run()
     table = at.dataframe[0].value
     core = run_study("flow", {}).tables["surface"]
     assert_allclose(table["surface speed [mph]"],
                     units.to_display(core["surface_speed_m_s"].to_numpy(), "speed", "imperial"))
     assert_allclose(table["pressure coefficient"], core["pressure_coefficient"])  # no unit: unchanged
-    stream = chart_specs(at)[0]
     feet = units.to_display(0.5, "length", "imperial")
     assert f"R = {feet:.3g} ft" in stream["layout"]["xaxis"]["title"]["text"]
 

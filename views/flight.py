@@ -133,14 +133,6 @@ def _flight_tab(result, values):
         show_figure(figs["Side view"], key="fig_side")
     with c2:
         show_figure(figs["Top view"], key="fig_top")
-    c1, c2 = st.columns(2)
-    with c1:
-        show_figure(figs["Along the flight"], key="fig_along")
-    with c2:
-        if d.setup.density_kg_m3 > 0:
-            show_figure(fb.coefficient_curves(d.setup.model, flights[0], system), key="fig_coef")
-        else:
-            st.info("In vacuum there is no drag or lift to show.")
     if len(flights) > 1:
         st.subheader("Flights side by side")
         rows = []
@@ -172,6 +164,20 @@ def _flight_tab(result, values):
                        "text/csv", key="flight_download",
                        help="Time, position, speed, spin and coefficients along the flight, in the "
                             "units chosen (the unit is in each column name)")
+
+
+def _along_tab(result):
+    system = unit_system()
+    d = result.detail
+    flights = list(study.display_flights(result, system))
+    c1, c2 = st.columns(2)
+    with c1:
+        show_figure(study_figures(study, result)["Along the flight"], key="fig_along")
+    with c2:
+        if d.setup.density_kg_m3 > 0:
+            show_figure(fb.coefficient_curves(d.setup.model, flights[0], system), key="fig_coef")
+        else:
+            st.info("In vacuum there is no drag or lift to show.")
 
 
 def _flight_3d_tab(result):
@@ -371,12 +377,12 @@ if problem:
     stop_for(problem)
 
 # Tabs track which one is open (so a button inside a tab keeps it open) and only the open one runs.
-TABS = ("Flight", "Flight in 3-D", "Launch sweep", "Launch spread", "Fit to tracked flights",
-        "Balls and models")
+TABS = ("Flight", "Along the flight", "Flight in 3-D", "Launch sweep", "Launch spread",
+        "Fit to tracked flights", "Balls and models")
 tabs = st.tabs(TABS, key="flight_tab", on_change="rerun")
-for tab, draw in zip(tabs, (lambda: _flight_tab(result, values), lambda: _flight_3d_tab(result),
-                            lambda: _sweep_tab(main_values), lambda: _spread_tab(values),
-                            lambda: _fit_tab(main_values), _balls_tab)):
+for tab, draw in zip(tabs, (lambda: _flight_tab(result, values), lambda: _along_tab(result),
+                            lambda: _flight_3d_tab(result), lambda: _sweep_tab(main_values),
+                            lambda: _spread_tab(values), lambda: _fit_tab(main_values), _balls_tab)):
     if tab.open is not False:
         with tab:
             draw()

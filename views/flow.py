@@ -26,21 +26,37 @@ st.markdown(f"**{study.stagnation_text(result.detail)}**")
 st.caption(study.SIGN_CONVENTION)
 
 figs = results.study_figures(study, result)
-left, right = st.columns([1.15, 1])
-with left:
-    results.show_figure(figs["Streamlines"], key="flow_streamlines")
-with right:
-    results.show_figure(figs["Surface pressure"], key="flow_cp")
-left, right = st.columns(2)
-with left:
-    results.show_figure(figs["Pressure integral check"], key="flow_check")
-with right:
-    results.show_figure(figs["Ideal lift coefficient"], key="flow_cl")
 
-with st.expander("Surface table (every 5°)"):
+
+def _flow_tab():
+    left, right = st.columns([1.15, 1])
+    with left:
+        results.show_figure(figs["Streamlines"], key="flow_streamlines")
+    with right:
+        results.show_figure(figs["Surface pressure"], key="flow_cp")
+
+
+def _lift_tab():
+    left, right = st.columns(2)
+    with left:
+        results.show_figure(figs["Pressure integral check"], key="flow_check")
+    with right:
+        results.show_figure(figs["Ideal lift coefficient"], key="flow_cl")
+
+
+def _table_tab():
     surface = results.study_tables(study, result)["surface"]
     st.dataframe(surface, hide_index=True, width="stretch")
     st.download_button("Download as CSV", surface.to_csv(index=False),
                        file_name="spinning_cylinder_surface.csv", mime="text/csv")
+
+
+# Only the open tab is drawn (and its charts made): the page answers faster.
+TABS = {"The flow and its pressure": _flow_tab, "Lift: the check and the ideal line": _lift_tab,
+        "Surface table (every 5°)": _table_tab}
+for tab, draw in zip(st.tabs(list(TABS), key="flow_tab", on_change="rerun"), TABS.values()):
+    if tab.open is not False:
+        with tab:
+            draw()
 
 results.show_sources_and_cautions(study)

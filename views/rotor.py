@@ -124,14 +124,21 @@ def _sets_tab():
     st.markdown("Every available coefficient set, corrected to this rotor where the switch under "
                 "*Coefficient set* says so. The shaded band is the spread between the sets with "
                 "data (theory excluded); the diamond is the operating point.")
-    for title in ("Lift coefficient against spin ratio", "Drag coefficient against spin ratio",
-                  "Spin-power coefficient against spin ratio"):
-        results.show_figure(figs[title], key=f"rotor:fig:{title}")
+    for col, title in zip(st.columns(2), ("Lift coefficient against spin ratio",
+                                          "Drag coefficient against spin ratio")):
+        with col:
+            results.show_figure(figs[title], key=f"rotor:fig:{title}")
     st.markdown("**The same operating point with every set** — the spread is the uncertainty of the "
                 "aerodynamic data, not of the wind.")
     st.table(_compare_table(result, system))
     st.markdown("**Where each set comes from**")
     _sets_provenance(result)
+
+
+def _power_tab():
+    results.show_figure(figs["Spin-power coefficient against spin ratio"], key="rotor:fig:power")
+    st.caption("The power the motor needs to spin the rotor, as a coefficient: from the set's own "
+               "power data where it has them, else from the skin-friction model named in the chart.")
 
 
 def _polar_tab():
@@ -165,7 +172,7 @@ def _tables_tab():
 
 
 # Only the open tab is drawn (and its charts made): the page answers faster.
-TABS = {"Coefficient sets": _sets_tab, "Around the compass": _polar_tab,
+TABS = {"Coefficient sets": _sets_tab, "Spin power": _power_tab, "Around the compass": _polar_tab,
         "Along the rotor": _span_tab, "Tables and downloads": _tables_tab}
 for tab, draw in zip(st.tabs(list(TABS), key="rotor_tab", on_change="rerun"), TABS.values()):
     if tab.open is not False:
