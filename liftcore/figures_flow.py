@@ -196,7 +196,7 @@ def _stride(n: int, target: int) -> int:
     return max(1, int(math.ceil(n / target)))
 
 
-def field_map_figure(field, res, max_cells: int = 161, arrows: int = 19, system: str = "SI") -> go.Figure:
+def field_map_figure(field, res, max_cells: int = 101, arrows: int = 19, system: str = "SI") -> go.Figure:
     """Speed colour map of the field with arrows, the body and the integration loops, drawn in
     ``system``'s length and speed units."""
     from liftcore.fieldcirc import loop_family

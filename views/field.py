@@ -82,7 +82,7 @@ with st.expander("Circulation of each loop"):
 with st.expander("File format"):
     st.markdown(FORMAT_HELP)
     st.download_button("Download the invented demo field (CSV)",
-                       fieldcirc.DEMO_FIELD_PATH.read_bytes(), file_name=fieldcirc.DEMO_FIELD_PATH.name,
-                       mime="text/csv")
+                       data=fieldcirc.DEMO_FIELD_PATH.read_bytes,  # read on the click, not on every run
+                       file_name=fieldcirc.DEMO_FIELD_PATH.name, mime="text/csv", on_click="ignore")
 
 results.show_sources_and_cautions(study)

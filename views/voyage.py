@@ -58,8 +58,9 @@ with fmt_col:
         st.markdown(f"Columns: `{cols}`\n\n{info}\n\nLines starting with `#` are comments. "
                     "Wind speeds are at the height of the given true wind (Wind profile section).")
         st.download_button("Download the invented demo file of this kind",
-                           study.DEMO_FILES[kind].read_bytes(), file_name=study.DEMO_FILES[kind].name,
-                           mime="text/csv", key=f"voyage:demo:{kind}")
+                           data=study.DEMO_FILES[kind].read_bytes,  # read on the click only
+                           file_name=study.DEMO_FILES[kind].name, mime="text/csv",
+                           key=f"voyage:demo:{kind}", on_click="ignore")
 
 extra, problem = None, None
 if uploaded is not None:
