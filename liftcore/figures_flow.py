@@ -75,7 +75,9 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID, system:
         spin = "No spin"
     fig = base_figure("Where the air goes: streamlines round the spinning cylinder",
                       f"x / R (R = {radius})<br>stream flows left to right", f"y / R (R = {radius})",
-                      height=MAP_HEIGHT_PX, subtitle=f"{spin}; colour: local speed")
+                      height=MAP_HEIGHT_PX,
+                      subtitle=f"{spin}; colour: local speed; orange line: the dividing streamline; "
+                               "✕: stagnation points")
     fig.add_trace(go.Heatmap(x=s, y=s, z=speed.astype(np.float32), colorscale=SEQUENTIAL, zmin=0.0,
                              zmax=3.0, name="speed",
                              colorbar=dict(title=dict(text=f"speed / free stream ({_num(v, 'speed', system)})",
@@ -97,13 +99,16 @@ def streamlines_figure(res: pot.IdealCylinderResult, n: int = FLOW_GRID, system:
                              contours=dict(coloring="lines", start=psi_s, end=psi_s, size=1.0,
                                            showlabels=False),
                              colorscale=[[0, PALETTE[4]], [1, PALETTE[4]]], line=dict(width=3.5),
-                             name="dividing streamline", showlegend=True))
+                             name="dividing streamline", showlegend=False))
     _body(fig, 0.0, 0.0, 1.0)
     px = [p[0] / r for p in res.stagnation_points_m]
     py = [p[1] / r for p in res.stagnation_points_m]
     lu = _unit("length", system)
     at = _u([list(p) for p in res.stagnation_points_m], "length", system)
+    # no legend: the subtitle names the lines and marks (a legend costs the browser a fifth of
+    # this chart's drawing time)
     fig.add_trace(go.Scatter(x=px, y=py, mode="markers", name="stagnation point", customdata=at,
+                             showlegend=False,
                              marker=dict(symbol="x-thin", size=20, color=PALETTE[1],
                                          line=dict(width=5, color=PALETTE[1])),
                              hovertemplate=("stagnation point<br>x/R %{x:.2f}, y/R %{y:.2f}<br>"

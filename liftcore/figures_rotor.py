@@ -51,63 +51,92 @@ def _is_real(cs) -> bool:
     return cs.kind != "theory"
 
 
-def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
-    """One coefficient against spin ratio for every set, the spread between the sets with data
-    shaded, and the operating point marked."""
-    attr, y_title, question = _WHICH[which]
-    corrected = detail.setup.correct_aspect_ratio and which == "drag"
-    fig = base_figure(question, "Spin ratio SR", y_title, height=430,
-                      subtitle="With the induced drag of this rotor's aspect ratio" if corrected else "")
+def _coefficient_traces(fig: go.Figure, detail, which: str, row=None, col=None,
+                        legend: bool = True) -> None:
+    """One coefficient against spin ratio for every set into ``fig`` (a panel when ``row`` and
+    ``col`` are given): the spread between the sets with data shaded, the operating point marked,
+    and the axis ranges set. ``legend`` False leaves the names out of the legend (a second panel)."""
+    attr, y_title, _ = _WHICH[which]
+    where = dict(row=row, col=col) if row is not None else {}
     real = [c for c in detail.comparisons if _is_real(c.coefficients)]
     # spread between the sets with data, on a common grid where at least two sets are defined
     top = max(c.curves.spin_ratio[-1] for c in real) if real else 0.0
     x = np.linspace(0.0, top, 161)
-    stack = []
-    for c in real:
-        cv = c.curves
-        y = np.interp(x, cv.spin_ratio, getattr(cv, attr), left=np.nan, right=np.nan)
-        stack.append(y)
+    stack = [np.interp(x, c.curves.spin_ratio, getattr(c.curves, attr), left=np.nan, right=np.nan)
+             for c in real]
     if len(stack) >= 2:
         arr = np.vstack(stack)
-        count = np.sum(np.isfinite(arr), axis=0)
-        keep = count >= 2
+        keep = np.sum(np.isfinite(arr), axis=0) >= 2
         if keep.any():
             lo = np.where(np.isfinite(arr), arr, np.inf).min(axis=0)
             hi = np.where(np.isfinite(arr), arr, -np.inf).max(axis=0)
-            band(fig, x[keep], lo[keep], hi[keep], "Spread between data sets", SPREAD_COLOUR, 0.25)
+            r, g, b = (int(SPREAD_COLOUR[i:i + 2], 16) for i in (1, 3, 5))
+            xs = x[keep]
+            fig.add_trace(go.Scatter(x=np.concatenate([xs, xs[::-1]]), y=np.concatenate([hi[keep], lo[keep][::-1]]),
+                                     fill="toself", fillcolor=f"rgba({r},{g},{b},0.25)", mode="lines",
+                                     line=dict(width=0), name="Spread between data sets", hoverinfo="skip",
+                                     legendgroup="spread", showlegend=legend, meta=CONTEXT), **where)
     y_cap = 0.0
     friction_drawn = False
     for i, c in enumerate(detail.comparisons):
-        cs = c.coefficients
-        cv = c.curves
+        cs, cv = c.coefficients, c.curves
         y = getattr(cv, attr)
         chosen = cs is detail.setup.coefficients
         name = cs.label
         dash = "dash" if cs.kind == "theory" else "solid"
-        col = THEORY_COLOUR if cs.kind == "theory" else colour(i)
+        colr = THEORY_COLOUR if cs.kind == "theory" else colour(i)
         if which == "power" and cv.power_from_friction_model:
             # every set without a power coefficient shares the one friction model of this rotor
             if friction_drawn:
                 continue
             friction_drawn = True
             name = "Skin-friction model of this rotor at this wind (sets without power data)"
-            dash, col = "dot", "#444444"
+            dash, colr = "dot", "#444444"
             chosen = not detail.setup.coefficients.has_power
-        fig.add_trace(go.Scatter(x=cv.spin_ratio, y=y, mode="lines", name=name,
-                                 line=dict(color=col, width=LINE_WIDTH * (1.5 if chosen else 1.0), dash=dash),
-                                 hovertemplate="SR %{x:.2f}<br>" + attr.split("_")[0] + " %{y:.3f}<extra></extra>"))
+        fig.add_trace(go.Scatter(x=cv.spin_ratio, y=y, mode="lines", name=name, legendgroup=name,
+                                 showlegend=legend,
+                                 line=dict(color=colr, width=LINE_WIDTH * (1.5 if chosen else 1.0), dash=dash),
+                                 hovertemplate="SR %{x:.2f}<br>" + attr.split("_")[0] + " %{y:.3f}<extra></extra>"),
+                      **where)
         if _is_real(cs):
             y_cap = max(y_cap, float(np.nanmax(y)))
     op = detail.operation
-    fig.add_trace(go.Scatter(x=[float(op.spin_ratio)], y=[float(getattr(op, attr))], mode="markers",
-                             name="Operating point", marker=dict(symbol="diamond", size=18, color="#D55E00",
-                                                                 line=dict(width=2, color="#000"))))
     y_op = float(getattr(op, attr))
+    fig.add_trace(go.Scatter(x=[float(op.spin_ratio)], y=[y_op], mode="markers", name="Operating point",
+                             legendgroup="operating point", showlegend=legend,
+                             marker=dict(symbol="diamond", size=18, color="#D55E00", line=dict(width=2, color="#000"))),
+                  **where)
     if y_cap > 0:
-        fig.update_yaxes(range=[min(0.0, y_op), max(y_cap, y_op) * 1.15])
-    if top > 0:  # the theory line runs on beyond the data; show the range the data cover
-        fig.update_xaxes(range=[0.0, max(top, float(op.spin_ratio)) * 1.04])
+        fig.update_yaxes(range=[min(0.0, y_op), max(y_cap, y_op) * 1.15], title_text=y_title, **where)
+    else:
+        fig.update_yaxes(title_text=y_title, **where)
+    xr = dict(range=[0.0, max(top, float(op.spin_ratio)) * 1.04]) if top > 0 else {}
+    # the theory line runs on beyond the data; show the range the data cover
+    fig.update_xaxes(title_text="Spin ratio SR", **xr, **where)
+
+
+def coefficient_figure(detail, which: str, system: str = "SI") -> go.Figure:
+    """One coefficient against spin ratio for every set, the spread between the sets with data
+    shaded, and the operating point marked."""
+    _, _, question = _WHICH[which]
+    corrected = detail.setup.correct_aspect_ratio and which == "drag"
+    fig = base_figure(question, height=430,
+                      subtitle="With the induced drag of this rotor's aspect ratio" if corrected else "")
+    _coefficient_traces(fig, detail, which)
     return finish(fig)
+
+
+def lift_drag_figure(detail, system: str = "SI") -> go.Figure:
+    """Lift and drag against spin ratio for every set, side by side with one legend: the spread
+    between the sets with data shaded and the operating point marked in both. (One chart, not
+    two: a browser draws it in a third of the time of two charts with a legend each.)"""
+    corrected = detail.setup.correct_aspect_ratio
+    fig = _styled_subplots("How much lift and drag each coefficient set gives", height=460, rows=1,
+                           cols=2, horizontal_spacing=0.1,
+                           subplot_titles=("Lift", "Drag" + (", with this rotor's induced drag" if corrected else "")))
+    _coefficient_traces(fig, detail, "lift", 1, 1)
+    _coefficient_traces(fig, detail, "drag", 1, 2, legend=False)
+    return finish(fig, top_extra=PANEL_TITLE_PX)
 
 
 #: Compass labels of the polar charts: the side labels in two short lines, so two charts fit side by
@@ -218,8 +247,7 @@ def span_figure(detail, system: str = "SI") -> go.Figure:
 def all_figures(detail, system: str = "SI") -> tuple:
     """(title, figure) pairs of the rotor study, each answering one question."""
     return (
-        ("Lift coefficient against spin ratio", coefficient_figure(detail, "lift", system)),
-        ("Drag coefficient against spin ratio", coefficient_figure(detail, "drag", system)),
+        ("Lift and drag against spin ratio", lift_drag_figure(detail, system)),
         ("Spin-power coefficient against spin ratio", coefficient_figure(detail, "power", system)),
         ("Thrust and net power gain around the compass", polar_figure(detail, system)),
         ("Wind along the rotor height", span_figure(detail, system)),

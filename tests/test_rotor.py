@@ -598,4 +598,4 @@ def test_study_compass_mode_and_headline_warnings():
     assert_allclose(comp.headline("thrust_n").value, rel.headline("thrust_n").value, rtol=1e-12)
     keys = {h.key for h in rel.headlines}
     assert all(w.subject in keys or w.subject == "" for w in rel.warnings)
-    assert len(rel.figures) == 5 and all(f.layout.title.text for _, f in rel.figures)
+    assert len(rel.figures) == 4 and all(f.layout.title.text for _, f in rel.figures)

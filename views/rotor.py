@@ -124,10 +124,7 @@ def _sets_tab():
     st.markdown("Every available coefficient set, corrected to this rotor where the switch under "
                 "*Coefficient set* says so. The shaded band is the spread between the sets with "
                 "data (theory excluded); the diamond is the operating point.")
-    for col, title in zip(st.columns(2), ("Lift coefficient against spin ratio",
-                                          "Drag coefficient against spin ratio")):
-        with col:
-            results.show_figure(figs[title], key=f"rotor:fig:{title}")
+    results.show_figure(figs["Lift and drag against spin ratio"], key="rotor:fig:lift_drag")
     st.markdown("**The same operating point with every set** — the spread is the uncertainty of the "
                 "aerodynamic data, not of the wind.")
     st.table(_compare_table(result, system))

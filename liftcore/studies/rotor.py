@@ -280,8 +280,7 @@ def rotor_charts(detail, system: str = "SI") -> Charts:
     """The rotor study's charts in ``system``, each drawn when first looked at."""
     f = figures_rotor
     return Charts((
-        ("Lift coefficient against spin ratio", lambda: f.coefficient_figure(detail, "lift", system)),
-        ("Drag coefficient against spin ratio", lambda: f.coefficient_figure(detail, "drag", system)),
+        ("Lift and drag against spin ratio", lambda: f.lift_drag_figure(detail, system)),
         ("Spin-power coefficient against spin ratio", lambda: f.coefficient_figure(detail, "power", system)),
         ("Thrust and net power gain around the compass", lambda: f.polar_figure(detail, system)),
         ("Wind along the rotor height", lambda: f.span_figure(detail, system)),
