@@ -16,6 +16,7 @@ import plotly.graph_objects as go
 
 from liftcore import potential as pot
 from liftcore import units
+from liftcore.units import format_number
 from liftcore.figures import PALETTE, SEQUENTIAL, band, base_figure, finish
 
 BODY_FILL = "#9a9a9a"
@@ -153,17 +154,21 @@ def surface_pressure_figure(res: pot.IdealCylinderResult, n: int = 361) -> go.Fi
 
 def pressure_check_figure(res: pot.IdealCylinderResult) -> go.Figure:
     """Lift and drag coefficients from the pressure integral beside Kutta-Joukowski."""
+    tiny = pot.ROUND_OFF_RESOLUTION
     diff = res.pressure_lift_relative_difference
+    cd = res.drag_coefficient_from_pressure
+    agree = abs(diff) < tiny and abs(cd) < tiny
     up = res.lift_coefficient >= 0
     fig = base_figure("Check: surface-pressure integral against Kutta-Joukowski",
                       "", "coefficient on the diameter [-]",
-                      subtitle=(f"Lift: relative difference {diff:.1e}; drag: "
-                                f"{res.drag_coefficient_from_pressure:.1e}. Both are round-off: they agree."))
+                      subtitle=(f"The two lifts agree, and the drag is 0, to round-off (below {tiny:g})."
+                                if agree else f"Lift: relative difference {diff:.1e}; drag {cd:.1e}."))
     # short lines, so the three labels stand upright side by side in a narrow chart
     labels = ["lift from<br>Γ / (R V)", "lift from<br>pressure", "drag from<br>pressure"]
-    vals = [res.lift_coefficient, res.lift_coefficient_from_pressure, res.drag_coefficient_from_pressure]
+    vals = [res.lift_coefficient, res.lift_coefficient_from_pressure, cd]
+    shown = [format_number(0.0 if abs(v) < tiny else v, 6) for v in vals]
     fig.add_trace(go.Bar(x=labels, y=vals, marker_color=[PALETTE[0], PALETTE[2], PALETTE[1]],
-                         text=[f"{v:.6g}" for v in vals], textposition="outside",
+                         text=shown, textposition="outside",
                          textfont=dict(size=18), cliponaxis=False, showlegend=False,
                          hovertemplate="%{x}: %{y:.10g}<extra></extra>"))
     top = max(abs(res.lift_coefficient), 1.0)

@@ -32,6 +32,10 @@ from liftcore.validity import MACH_INCOMPRESSIBLE_LIMIT, ModelWarning, mach_warn
 
 #: rad/s per rpm (one revolution is 2 pi rad, one minute 60 s; definition).
 RAD_S_PER_RPM = 2.0 * math.pi / 60.0
+#: Pressure-integral results (drag, the relative lift difference) smaller than this are round-off
+#: of an exact value: the trapezoid rule on the periodic surface integrand converges
+#: geometrically (Trefethen & Weideman 2014), so its error is at machine precision; shown as 0.
+ROUND_OFF_RESOLUTION = 1e-9
 #: Surface points used by default for the pressure integral (the integrand is a trigonometric
 #: polynomial of degree 3, so any n >= 8 is exact to rounding; more points only draw nicer).
 DEFAULT_SURFACE_POINTS = 720

@@ -34,10 +34,7 @@ INPUTS = InputSpec(KIND, (
     "spin_rpm": lambda v: v["spin_mode"] == "rpm",
 })
 
-#: Pressure-integral results smaller than this are round-off of an exact zero (the trapezoid
-#: rule on the periodic surface integrand is exact to machine precision: Trefethen & Weideman
-#: 2014), shown as 0.
-ROUND_OFF_RESOLUTION = 1e-9
+ROUND_OFF_RESOLUTION = pot.ROUND_OFF_RESOLUTION
 
 SOURCES = pot.REFERENCES + (
     "ISO 2533:1975 Standard Atmosphere (air density, speed of sound).",
