@@ -17,7 +17,7 @@ from liftcore.studies import flight as study
 from liftcore.studies import format_number
 from views.inputs import (input_widget, render_inputs, set_values, state_key, unit_system,
                           widget_changed)
-from views.results import (bold_html, cached, general_warnings, number_text, run_for_page, show_figure, stop_for,
+from views.results import (bold_html, cached, general_warnings, open_tab_only, number_text, run_for_page, show_figure, stop_for,
                            show_headlines, show_sources_and_cautions, show_warnings, study_figures,
                            study_tables, table_in_units)
 from views.tools import page_tools
@@ -377,13 +377,8 @@ if problem:
     stop_for(problem)
 
 # Tabs track which one is open (so a button inside a tab keeps it open) and only the open one runs.
-TABS = ("Flight", "Along the flight", "Flight in 3-D", "Launch sweep", "Launch spread",
-        "Fit to tracked flights", "Balls and models")
-tabs = st.tabs(TABS, key="flight_tab", on_change="rerun")
-for tab, draw in zip(tabs, (lambda: _flight_tab(result, values), lambda: _along_tab(result),
-                            lambda: _flight_3d_tab(result), lambda: _sweep_tab(main_values),
-                            lambda: _spread_tab(values), lambda: _fit_tab(main_values), _balls_tab)):
-    if tab.open is not False:
-        with tab:
-            draw()
+open_tab_only({"Flight": lambda: _flight_tab(result, values), "Along the flight": lambda: _along_tab(result),
+               "Flight in 3-D": lambda: _flight_3d_tab(result), "Launch sweep": lambda: _sweep_tab(main_values),
+               "Launch spread": lambda: _spread_tab(values), "Fit to tracked flights": lambda: _fit_tab(main_values),
+               "Balls and models": _balls_tab}, "flight_tab")
 show_sources_and_cautions(study)

@@ -51,12 +51,8 @@ def _table_tab():
                        file_name="spinning_cylinder_surface.csv", mime="text/csv")
 
 
-# Only the open tab is drawn (and its charts made): the page answers faster.
 TABS = {"The flow and its pressure": _flow_tab, "Lift: the check and the ideal line": _lift_tab,
         "Surface table (every 5°)": _table_tab}
-for tab, draw in zip(st.tabs(list(TABS), key="flow_tab", on_change="rerun"), TABS.values()):
-    if tab.open is not False:
-        with tab:
-            draw()
+results.open_tab_only(TABS, "flow_tab")
 
 results.show_sources_and_cautions(study)

@@ -249,6 +249,15 @@ def show_sources_and_cautions(study) -> None:
         st.info(c, icon=":material/health_and_safety:")
 
 
+def open_tab_only(tabs: dict, key: str) -> None:
+    """Tabs (title -> function that draws it) of which only the open one is drawn, so a change
+    pays only for what is on the screen (``st.tabs`` reruns the page when another is opened)."""
+    for tab, draw in zip(st.tabs(list(tabs), key=key, on_change="rerun"), tabs.values()):
+        if tab.open is not False:
+            with tab:
+                draw()
+
+
 def bold_html(markdown: str) -> str:
     """A sentence made by a study with ``**`` round its numbers, as HTML: ``<b>`` for the
     numbers, everything else escaped."""

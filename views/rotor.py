@@ -168,12 +168,8 @@ def _tables_tab():
                            file_name=f"rotor_{name}.csv", mime="text/csv", key=f"rotor:dl:{name}")
 
 
-# Only the open tab is drawn (and its charts made): the page answers faster.
 TABS = {"Coefficient sets": _sets_tab, "Spin power": _power_tab, "Around the compass": _polar_tab,
         "Along the rotor": _span_tab, "Tables and downloads": _tables_tab}
-for tab, draw in zip(st.tabs(list(TABS), key="rotor_tab", on_change="rerun"), TABS.values()):
-    if tab.open is not False:
-        with tab:
-            draw()
+results.open_tab_only(TABS, "rotor_tab")
 
 results.show_sources_and_cautions(study)

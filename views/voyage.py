@@ -9,7 +9,8 @@ from liftcore import windstats
 from liftcore.errors import InputError
 from liftcore.studies import voyage as study
 from views.inputs import render_inputs, unit_system
-from views.results import (general_warnings, run_for_page, show_figure, show_headlines, stop_for,
+from views.results import (general_warnings, open_tab_only, run_for_page, show_figure,
+                           show_headlines, stop_for,
                            show_sources_and_cautions, show_warnings, study_figures, study_tables,
                            units_caption)
 from views.tools import page_tools
@@ -144,12 +145,8 @@ def _tables_tab():
                            file_name=f"voyage_{name}.csv", mime="text/csv", key=f"voyage:csv:{name}")
 
 
-# Only the open tab is drawn (and computed): the page answers faster.
 TABS = {"Where the gain comes from": _gain_tab, "Design options: which size, how many?": _design_tab,
         "Tables to download": _tables_tab}
-for tab, draw in zip(st.tabs(list(TABS), key="voyage_tab", on_change="rerun"), TABS.values()):
-    if tab.open is not False:
-        with tab:
-            draw()
+open_tab_only(TABS, "voyage_tab")
 
 show_sources_and_cautions(study)
