@@ -31,6 +31,7 @@ import numpy as np
 from scipy.optimize import brentq, minimize_scalar
 
 from liftcore import rotor
+from liftcore import rotor_inputs
 
 TARGET_SPEEDUP = 50.0
 TARGET_DIFFERENCE_PCT = 0.5
@@ -175,7 +176,7 @@ def main(argv=()) -> dict:
     args = p.parse_args(argv)
     n = args.conditions
     m = n if args.naive_conditions is None else min(n, args.naive_conditions)
-    setup = rotor.setup_from_inputs({})
+    setup = rotor_inputs.setup_from_inputs({})
     vs, vt, g = conditions(n)
     rotor.best_operation(setup, vs[:100], vt[:100], g[:100])  # warm up imports and caches
 

@@ -52,9 +52,11 @@ def main() -> None:
     from dask.distributed import Client
 
     from liftcore import rotor, voyage as vy
+
+    from liftcore import rotor_inputs
     from liftcore.studies.voyage import operate_for
 
-    operate = operate_for(rotor.setup_from_inputs({"rotor_count": ROTORS, "rotor_spacing_m": 30.0}))
+    operate = operate_for(rotor_inputs.setup_from_inputs({"rotor_count": ROTORS, "rotor_spacing_m": 30.0}))
     with tempfile.TemporaryDirectory() as tmp:
         path = Path(tmp) / "twenty_years.csv"
         rows = build_series(path)

@@ -262,6 +262,17 @@ def _text(doc: dict, key: str, limit: int, source: str, where: str = "") -> str:
     return value
 
 
+def _renamed_sets(inputs: dict) -> dict:
+    """A file or link saved before a coefficient set was renamed opens with its new name (the
+    same numbers under the name of their published source)."""
+    from liftcore.coefficients import RENAMED_SETS
+
+    name = inputs.get("coefficient_set")
+    if isinstance(name, str) and name in RENAMED_SETS:
+        return {**inputs, "coefficient_set": RENAMED_SETS[name]}
+    return inputs
+
+
 def validate_inputs(kind: str, inputs, source: str = "scenario", where: str = "[inputs]") -> dict:
     """Check a partial inputs table in core units; return complete validated values.
 
@@ -272,6 +283,7 @@ def validate_inputs(kind: str, inputs, source: str = "scenario", where: str = "[
         raise InputError("inputs", f"{source}: {where} must be a table of key = value (got {type(inputs).__name__})")
     spec = study(kind).INPUTS
     prefix = f"{source} {where}".strip()
+    inputs = _renamed_sets(inputs)
     for key, value in inputs.items():
         if key not in spec.keys:
             raise _unknown(key, spec.keys, (f"in {where} " if where else "") + f"for a {kind} study", source)

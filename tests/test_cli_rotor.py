@@ -10,6 +10,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from liftcore import rotor
+from liftcore import rotor_inputs
 from liftcore.cli import main
 from liftcore.constants import KNOT_M_S
 
@@ -31,7 +32,7 @@ def run_json(capsys, *extra):
 def core(setup_kw=None, spin=None):
     values = {"rotor_count": 1}
     values.update(setup_kw or {})
-    setup = rotor.setup_from_inputs(values)
+    setup = rotor_inputs.setup_from_inputs(values)
     args = (setup, 12 * KNOT_M_S, 20 * KNOT_M_S, math.radians(90))
     return rotor.best_operation(*args) if spin is None else rotor.fixed_operation(*args, **spin)
 
@@ -98,8 +99,8 @@ def test_text_output_carries_the_caution(capsys):
 @pytest.mark.parametrize("extra, message", [
     (["--diameter-m", "-4"], "liftcore: --diameter-m: Rotor diameter must be between 0.2 and 15 m (got -4 m)"),
     (["--ship-speed-kn", "45"], "liftcore: --ship-speed-kn: Ship speed must be between 0 and 30 kn (got 45 kn)"),
-    (["--coefficients", "nonesuch"], "liftcore: --coefficients must be one of potential_flow, bare_cylinder, "
-                                     "end_plates_fullscale_fit, end_plates_model or a .csv file (got 'nonesuch')"),
+    (["--coefficients", "nonesuch"], "liftcore: --coefficients must be one of potential_flow, bordogna_2019, "
+                                     "gerhardt_2022, prandtl_1926, tillig_ringsberg_2020 or a .csv file (got 'nonesuch')"),
     (["--rotors", "2", "--rotor-spacing-m", "2"], "liftcore: spacing between rotors must be at least the rotor "
                                                   "diameter 5 m when there are 2 rotors (got 2 m)"),
     (["--max-motor-power-kw", "0"], "liftcore: --max-motor-power-kw: Maximum motor power per rotor must be "

@@ -10,6 +10,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from liftcore import rotor
+from liftcore import rotor_inputs
 from liftcore.cli import main
 from liftcore.studies import run_study
 from liftcore.studies import voyage as study
@@ -50,7 +51,7 @@ def test_one_row_table_equals_the_single_condition_rotor_result(capsys, tmp_path
                                            "--wind-profile", "power", "--json"])
     assert code == 0
     data = json.loads(out)
-    setup = rotor.setup_from_inputs({"diameter_m": 5.0, "height_m": 30.0, "rotor_count": 2,
+    setup = rotor_inputs.setup_from_inputs({"diameter_m": 5.0, "height_m": 30.0, "rotor_count": 2,
                                      "max_rpm": 200.0, "wind_profile": "power"})
     op = rotor.best_operation(setup, 11 * 1852 / 3600, speed, np.radians(angle))
     assert_allclose(data["mean_net_power_kw"], float(op.net_power_w) / 1000, rtol=1e-12)
@@ -65,7 +66,7 @@ def test_one_row_table_equals_the_rotor_command(capsys, tmp_path, angle, speed_m
     table = tmp_path / "one.csv"
     table.write_text(f"true_wind_angle_deg,true_wind_speed_m_s,probability\n{angle},{speed_m_s},1\n")
     shared = ["--diameter-m", "4", "--height-m", "26", "--rotors", "3", "--ship-speed-kn", "13",
-              "--max-motor-power-kw", "120", "--coefficients", "end_plates_model",
+              "--max-motor-power-kw", "120", "--coefficients", "gerhardt_2022",
               "--temperature-c", "25", "--pressure-pa", "100500", "--json"]
     code, out, _ = run_cli(capsys, ["voyage", "--fuel", "mdo", "--wind-table", str(table),
                                     "--hours-at-sea", "4000"] + shared)
@@ -123,8 +124,8 @@ def test_bad_tables_exit_2_with_one_line(capsys, tmp_path, body, message):
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--max-rpm", "-3"],
      "liftcore: --max-rpm: Maximum rotor speed must be between 1 and 1000 rpm (got -3 rpm)"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--coefficients", "nothing"],
-     "liftcore: --coefficients must be one of potential_flow, bare_cylinder, end_plates_fullscale_fit, "
-     "end_plates_model or a .csv file (got 'nothing')"),
+     "liftcore: --coefficients must be one of potential_flow, bordogna_2019, gerhardt_2022, "
+     "prandtl_1926, tillig_ringsberg_2020 or a .csv file (got 'nothing')"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--temperature-c", "300"],
      "liftcore: temperature-c must be between -73.15 and 76.85 degC (got 300 degC)"),
 ])

@@ -10,6 +10,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from liftcore import rotor, voyage as vy
+from liftcore import rotor_inputs
 from liftcore.errors import InputError
 from liftcore.studies import run_study
 from liftcore.studies import voyage as study
@@ -29,7 +30,7 @@ def scheduler():
 
 @pytest.fixture(scope="module")
 def operate():
-    return study.operate_for(rotor.setup_from_inputs({"rotor_count": 4}))
+    return study.operate_for(rotor_inputs.setup_from_inputs({"rotor_count": 4}))
 
 
 def _same(a: vy.Tally, b: vy.Tally):

@@ -8,6 +8,7 @@ from numpy.testing import assert_allclose
 from streamlit.testing.v1 import AppTest
 
 from liftcore import rotor, units
+from liftcore import rotor_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.studies import format_number
 from liftcore.studies import rotor as study
@@ -134,7 +135,7 @@ def test_limit_warning_sits_beside_its_number(page):
     assert not page.exception
     captions = [c.value for c in page.caption]
     assert any("maximum motor power 40 kW" in c for c in captions)
-    setup = rotor.setup_from_inputs({"max_motor_power_w": 40_000.0})
+    setup = rotor_inputs.setup_from_inputs({"max_motor_power_w": 40_000.0})
     op = rotor.best_operation(setup, 12 * KNOT_M_S, 20 * KNOT_M_S, math.radians(90))
     assert metric(page, "Spin power (shaft)") == f"{format_number(op.spin_power_w / 1000)} kW"
 

@@ -9,6 +9,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from liftcore import rotor, voyage as vy, windstats as ws
+from liftcore import rotor_inputs
 from liftcore.constants import CO2_FACTOR_T_PER_T
 from liftcore.errors import InputError
 from liftcore.scenario import load_scenario
@@ -158,7 +159,7 @@ def test_series_and_table_give_the_same_answer(tmp_path):
     # blocks of 7 rows; the real rotor model gives the operation
     joint = ws.JointWind(np.array([0.0, 45.0, 90.0, -120.0, 180.0]), np.array([4.0, 8.0, 12.0, 9.0, 15.0]),
                          np.array([0.1, 0.2, 0.35, 0.25, 0.1]))
-    setup = rotor.setup_from_inputs({"rotor_count": 3})
+    setup = rotor_inputs.setup_from_inputs({"rotor_count": 3})
     operate = study.operate_for(setup)
     vs = 6.0
     table = vy.tally_joint(operate, joint, [vs], [1.0])
@@ -195,7 +196,7 @@ def test_series_hours_at_sea_per_year():
 
 def test_warning_shares_are_shares_of_time_at_sea():
     joint = ws.read_wind_table(study.DEMO_FILES["table"])
-    setup = rotor.setup_from_inputs({})
+    setup = rotor_inputs.setup_from_inputs({})
     vs = 6.0
     t = vy.tally_joint(study.operate_for(setup), joint, [vs], [1.0])
     s = vy.summarise(t, vy.ShipEconomics())

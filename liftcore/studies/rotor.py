@@ -16,6 +16,7 @@ import pandas as pd
 from liftcore import coefficients as coef
 from liftcore import figures_rotor
 from liftcore import rotor
+from liftcore import rotor_inputs
 from liftcore.air import AirState, air_inputs, air_state_from_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
@@ -58,8 +59,8 @@ _CONDITION_FIELDS = (
            help="Revolutions per minute of the rotor."),
 )
 
-INPUTS = InputSpec(KIND, _CONDITION_FIELDS + rotor.ROTOR_FIELDS + air_inputs("Air")).with_rules({
-    **rotor.ROTOR_SHOW_IF,
+INPUTS = InputSpec(KIND, _CONDITION_FIELDS + rotor_inputs.ROTOR_FIELDS + air_inputs("Air")).with_rules({
+    **rotor_inputs.ROTOR_SHOW_IF,
     "true_wind_angle_deg": lambda v: v["wind_angle_reference"] == "relative",
     "heading_deg": lambda v: v["wind_angle_reference"] == "compass",
     "true_wind_direction_deg": lambda v: v["wind_angle_reference"] == "compass",
@@ -162,7 +163,7 @@ def _user_table(values: dict, extra):
 
 def operating_point(values: dict, extra=None) -> tuple[rotor.RotorSetup, rotor.Operation]:
     """The setup and the operating point of validated inputs (what the command line prints)."""
-    setup = rotor.setup_from_inputs(values, _user_table(values, extra))
+    setup = rotor_inputs.setup_from_inputs(values, _user_table(values, extra))
     twa = math.radians(relative_wind_angle_deg(values))
     return setup, operate(setup, values, values["ship_speed_m_s"], values["true_wind_speed_m_s"], twa)
 
@@ -188,7 +189,7 @@ def _comparison_sets(values: dict, chosen: coef.CoefficientSet, extra) -> list:
         sets.append(chosen)
     elif (values.get("user_coefficients_csv") or "").strip() or isinstance(extra, pd.DataFrame):
         try:
-            sets.append(rotor.coefficient_set_from_inputs({**values, "coefficient_set": "user"},
+            sets.append(rotor_inputs.coefficient_set_from_inputs({**values, "coefficient_set": "user"},
                                                           _user_table(values, extra)))
         except InputError:
             pass  # an unused, unreadable user table does not stop the chosen set's results

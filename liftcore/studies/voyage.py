@@ -1,6 +1,6 @@
 """Voyage savings study: is it worth fitting rotors to this ship on this trade, which size, how many?
 
-Inputs are the rotor inputs of the rotor study (:data:`liftcore.rotor.ROTOR_FIELDS`), the air
+Inputs are the rotor inputs of the rotor study (:data:`liftcore.rotor_inputs.ROTOR_FIELDS`), the air
 state, and the ship, trade and money inputs below. The wind comes from an invented demo file of
 the chosen kind, or from ``extra``: a DataFrame (an uploaded CSV; ``df.attrs["source_name"]``
 names it in messages) or a path (the command line; series files are streamed, never loaded
@@ -22,6 +22,7 @@ import pandas as pd
 
 from liftcore import figures_voyage as fv
 from liftcore import rotor, windstats
+from liftcore import rotor_inputs
 from liftcore import voyage as vy
 from liftcore.air import air_inputs
 from liftcore.constants import CO2_FACTOR_T_PER_T, KNOT_M_S
@@ -118,8 +119,8 @@ VOYAGE_FIELDS = (
 # The trade first (what this page is about), then the rotor inputs shared with the rotor page.
 _FIRST = tuple(f for f in VOYAGE_FIELDS if f.section in (_W, _S, _M))
 _LAST = tuple(f for f in VOYAGE_FIELDS if f.section not in (_W, _S, _M))
-INPUTS = InputSpec(KIND, _FIRST + tuple(rotor.ROTOR_FIELDS) + tuple(air_inputs("Air")) + _LAST).with_rules({
-    **rotor.ROTOR_SHOW_IF,
+INPUTS = InputSpec(KIND, _FIRST + tuple(rotor_inputs.ROTOR_FIELDS) + tuple(air_inputs("Air")) + _LAST).with_rules({
+    **rotor_inputs.ROTOR_SHOW_IF,
     "course_deg": lambda v: v["wind_kind"] == "weibull",
     "round_trip": lambda v: v["wind_kind"] == "weibull",
     "hours_from_series": lambda v: v["wind_kind"] == "series",
@@ -248,7 +249,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
 
     kind = values["wind_kind"]
     ship = economics_from_values(values)
-    setup = rotor.setup_from_inputs(values)
+    setup = rotor_inputs.setup_from_inputs(values)
     operate = operate_for(setup)
     source, label = _wind_source(values, extra)
     speeds, shares = vy.parse_speed_profile(values["speed_profile_kn"], values["ship_speed_m_s"])
