@@ -48,7 +48,9 @@ def _styled_subplots(title: str, height: int, **kw) -> go.Figure:
 
 
 def _is_real(cs) -> bool:
-    return cs.kind != "theory"
+    """The spread band is drawn over the published sets (and a user's own data); theory and
+    anything from memory are shown apart."""
+    return cs.published or cs.kind == "user"
 
 
 def _coefficient_traces(fig: go.Figure, detail, which: str, row=None, col=None,
@@ -74,7 +76,7 @@ def _coefficient_traces(fig: go.Figure, detail, which: str, row=None, col=None,
             xs = x[keep]
             fig.add_trace(go.Scatter(x=np.concatenate([xs, xs[::-1]]), y=np.concatenate([hi[keep], lo[keep][::-1]]),
                                      fill="toself", fillcolor=f"rgba({r},{g},{b},0.25)", mode="lines",
-                                     line=dict(width=0), name="Spread between data sets", hoverinfo="skip",
+                                     line=dict(width=0), name="Spread between the published sets", hoverinfo="skip",
                                      legendgroup="spread", showlegend=legend, meta=CONTEXT), **where)
     y_cap = 0.0
     friction_drawn = False
@@ -171,7 +173,7 @@ def polar_figure(detail, system: str = "SI") -> go.Figure:
             lo, hi = np.min(vals, axis=0), np.max(vals, axis=0)
             fig.add_trace(go.Scatterpolar(r=np.concatenate([lo, hi[::-1]]), theta=np.concatenate([theta, theta[::-1]]),
                                           fill="toself", fillcolor="rgba(86,180,233,0.25)", line=dict(width=0),
-                                          name="Spread between data sets", hoverinfo="skip",
+                                          name="Spread between the published sets", hoverinfo="skip",
                                           showlegend=col == 1, subplot=polar, meta=CONTEXT))
         r = _disp(getattr(chosen.sweep, attr), kind, system)
         fig.add_trace(go.Scatterpolar(r=r, theta=theta, mode="lines", name=chosen.coefficients.label,

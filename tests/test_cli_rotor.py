@@ -17,7 +17,8 @@ from liftcore.constants import KNOT_M_S
 ROOT = Path(__file__).resolve().parents[1]
 BASE = ["rotor", "--diameter-m", "5", "--height-m", "30", "--ship-speed-kn", "12",
         "--true-wind-speed-kn", "20", "--true-wind-angle-deg", "90"]
-KEYS = ["apparent_wind_speed_m_s", "apparent_wind_angle_deg", "spin_ratio", "rpm", "lift_coefficient",
+KEYS = ["state", "coefficient_set", "spin_power_model", "spin_power_set_kw", "spin_power_friction_kw",
+        "apparent_wind_speed_m_s", "apparent_wind_angle_deg", "spin_ratio", "rpm", "lift_coefficient",
         "drag_coefficient", "lift_n", "drag_n", "thrust_n", "side_force_n", "heeling_moment_knm",
         "spin_power_kw", "net_power_kw", "warnings"]
 
@@ -47,6 +48,16 @@ def test_json_keys_exactly_and_best_spin_matches_core(capsys):
     assert_allclose(data["spin_power_kw"], op.spin_power_w / 1000, rtol=1e-12)
     assert_allclose(data["rpm"], op.rpm, rtol=1e-12)
     assert all({"code", "message", "subject", "severity"} <= set(w) for w in data["warnings"])
+    assert data["state"] == rotor.STATE_NAMES[int(op.state)] and data["coefficient_set"] == "tillig_ringsberg_2020"
+    assert_allclose(data["spin_power_set_kw"], op.spin_power_set_w / 1000, rtol=1e-12)
+    assert_allclose(data["spin_power_friction_kw"], op.spin_power_friction_w / 1000, rtol=1e-12)
+
+
+def test_a_head_wind_reports_stopped_rotors_that_cost_power(capsys):
+    data = run_json(capsys, "--true-wind-angle-deg", "0")
+    assert data["state"] == "stopped" and data["rpm"] == 0.0
+    assert data["net_power_kw"] < 0 and data["thrust_n"] < 0  # their drag: said in a warning
+    assert any(w["code"] == "rotor_stopped" and "cost" in w["message"] for w in data["warnings"])
 
 
 def test_fixed_rpm_and_spin_ratio(capsys):

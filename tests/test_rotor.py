@@ -476,10 +476,11 @@ def test_demo_scenario_loads_and_runs():
     assert result.headline("thrust_n").value > 0
     assert result.headline("net_power_w").value > 0
     assert all(np.isfinite(h.value) for h in result.headlines)
-    assert set(result.json) == {"apparent_wind_speed_m_s", "apparent_wind_angle_deg", "spin_ratio", "rpm",
-                                "lift_coefficient", "drag_coefficient", "lift_n", "drag_n", "thrust_n",
-                                "side_force_n", "heeling_moment_knm", "spin_power_kw", "net_power_kw",
-                                "warnings"}
+    assert set(result.json) == {"state", "coefficient_set", "spin_power_model", "spin_power_set_kw",
+                                "spin_power_friction_kw", "apparent_wind_speed_m_s", "apparent_wind_angle_deg",
+                                "spin_ratio", "rpm", "lift_coefficient", "drag_coefficient", "lift_n", "drag_n",
+                                "thrust_n", "side_force_n", "heeling_moment_knm", "spin_power_kw",
+                                "net_power_kw", "warnings"}
     # the study's headline is the core's number for the same inputs
     setup = rotor_inputs.setup_from_inputs(sc.inputs)
     op = rotor.best_operation(setup, sc.inputs["ship_speed_m_s"], sc.inputs["true_wind_speed_m_s"],

@@ -161,7 +161,7 @@ def execute(args, progress):
     from liftcore.validity import merge
 
     warnings = merge(op.warnings, air.warnings)
-    data = study.json_result(op, warnings)
+    data = study.json_result(op, warnings, setup)
     one = op.at(())
     state = {0: "stopped", 1: "running", 2: "running at a limit"}[int(one["state"])]
     n = setup.rotor_count

@@ -94,15 +94,16 @@ CAUTIONS = (
     "architect's analysis.",
     "Structural loads on the rotor and its foundation, and heel in gusts, are not assessed here: "
     "a gust raises forces with the square of the wind speed before the rotor can slow down.",
-    "The aerodynamic data are uncertain (several sets are recalled from memory); compare the "
-    "sets side by side before relying on one.",
+    "The aerodynamic data are uncertain: the published sets differ by 10 to 30 % and more at "
+    "high spin ratios; compare them side by side before relying on one.",
 )
 
 #: True wind angles of the sweep. [deg]
 SWEEP_ANGLES_DEG = np.arange(-180.0, 180.0 + 1e-9, 5.0)
 
 #: Command-line JSON keys (and the units they are in).
-JSON_KEYS = ("apparent_wind_speed_m_s", "apparent_wind_angle_deg", "spin_ratio", "rpm",
+JSON_KEYS = ("state", "coefficient_set", "spin_power_model", "spin_power_set_kw", "spin_power_friction_kw",
+             "apparent_wind_speed_m_s", "apparent_wind_angle_deg", "spin_ratio", "rpm",
              "lift_coefficient", "drag_coefficient", "lift_n", "drag_n", "thrust_n", "side_force_n",
              "heeling_moment_knm", "spin_power_kw", "net_power_kw", "warnings")
 
@@ -168,10 +169,17 @@ def operating_point(values: dict, extra=None) -> tuple[rotor.RotorSetup, rotor.O
     return setup, operate(setup, values, values["ship_speed_m_s"], values["true_wind_speed_m_s"], twa)
 
 
-def json_result(op: rotor.Operation, warnings) -> dict:
-    """The command-line JSON of one operating point (rotor-set totals)."""
+def json_result(op: rotor.Operation, warnings, setup: rotor.RotorSetup | None = None) -> dict:
+    """The command-line JSON of one operating point (rotor-set totals): ``state`` is running,
+    at_limit or stopped; both spin-power estimates beside the one used."""
     one = op.at(())
-    return {
+    extra = {}
+    if setup is not None:
+        extra = {"state": rotor.STATE_NAMES[int(one["state"])], "coefficient_set": setup.coefficients.name,
+                 "spin_power_model": "set" if setup.power_from_set else "friction",
+                 "spin_power_set_kw": (None if op.spin_power_set_w is None else one["spin_power_set_w"] / 1000.0),
+                 "spin_power_friction_kw": one["spin_power_friction_w"] / 1000.0}
+    return {**extra,
         "apparent_wind_speed_m_s": one["apparent_wind_speed_m_s"],
         "apparent_wind_angle_deg": one["apparent_wind_angle_deg"],
         "spin_ratio": one["spin_ratio"], "rpm": one["rpm"],
@@ -268,7 +276,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
               "wind_angle_sweep": sweep_table(detail), "along_the_rotor": span_table(detail)}
     prog(1.0, "Done")
     return StudyResult(kind=KIND, inputs=dict(values), headlines=headlines(op), warnings=warnings,
-                       figures=figures, tables=tables, detail=detail, json=json_result(op, warnings))
+                       figures=figures, tables=tables, detail=detail, json=json_result(op, warnings, setup))
 
 
 # ----------------------------------------------------------------------------- display units
