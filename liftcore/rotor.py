@@ -83,7 +83,7 @@ FRICTION_RE_MIN = 1.0e5
 #: the spin's error a few millionths of its range, far below what the net gain can feel.
 GRID_POINTS = 24
 PEAKS_REFINED = 3
-SUBGRID_POINTS = 9
+SUBGRID_POINTS = 13
 BOUNDARY_STEPS = 18
 PEAK_STEPS = 12
 #: Evaluations are made in blocks of this many conditions (bounded memory).
@@ -543,9 +543,10 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
        spins where the data's lift peaks (digitised data can dip: a sharp hump there);
     2. the :data:`PEAKS_REFINED` best local maxima of the grid within the limits (a net gain can
        have several humps where the data dip);
-    3. where a neighbour of such a maximum breaks a limit, the limit's boundary by bisection;
-    4. :data:`SUBGRID_POINTS` spins between the neighbours (or the boundary), and a
-       golden-section search round the best of them;
+    3. where a spin within two grid steps of such a maximum breaks a limit, the limit's boundary
+       by bisection;
+    4. :data:`SUBGRID_POINTS` spins over two grid steps either side (or up to the boundary),
+       and a golden-section search round the best of them;
     5. the best point met. If its net gain is not above ``setup.min_gain_w`` the rotor stops
        and the still cylinder's drag is counted.
 
@@ -611,6 +612,31 @@ def _lift_peaks(cs: coef.CoefficientSet) -> np.ndarray:
     return np.asarray(cs.spin_ratio, dtype=float)[inner]
 
 
+def _boundary(setup: RotorSetup, w: "_Wind", inside, outside) -> np.ndarray:
+    """Bisection for where a limit starts to bind, between spins ``inside`` (within the limits)
+    and ``outside``; returns the last spin found within them."""
+    for _ in range(BOUNDARY_STEPS):
+        mid = 0.5 * (inside + outside)
+        ok = np.isfinite(_score(setup, w, mid))
+        inside, outside = np.where(ok, mid, inside), np.where(ok, outside, mid)
+    return inside
+
+
+def _golden(setup: RotorSetup, w: "_Wind", a, b):
+    """Golden-section search of the largest net gain in [a, b]; (spin, net gain)."""
+    x1, x2 = b - _GOLDEN * (b - a), a + _GOLDEN * (b - a)
+    f1, f2 = _score(setup, w, x1), _score(setup, w, x2)
+    for _ in range(PEAK_STEPS):
+        right = f2 > f1                      # the peak lies in [x1, b], else in [a, x2]
+        a, b = np.where(right, x1, a), np.where(right, b, x2)
+        keep_x, keep_f = np.where(right, x2, x1), np.where(right, f2, f1)
+        new = np.where(right, a + _GOLDEN * (b - a), b - _GOLDEN * (b - a))
+        f_new = _score(setup, w, new)
+        x1, f1 = np.where(right, keep_x, new), np.where(right, keep_f, f_new)
+        x2, f2 = np.where(right, new, keep_x), np.where(right, f_new, keep_f)
+    return np.where(f2 > f1, x2, x1), np.maximum(f1, f2)
+
+
 def _best_omega(setup: RotorSetup, w: "_Wind") -> np.ndarray:
     """The best spin of each condition of ``w`` (see :func:`best_operation`). [rad/s]"""
     n = w.ship.size
@@ -622,63 +648,44 @@ def _best_omega(setup: RotorSetup, w: "_Wind") -> np.ndarray:
     if peaks.size:
         at = peaks[:, None] * w.va_mid[None, :] / setup.radius_m
         grid = np.sort(np.vstack([grid, np.minimum(at, top[None, :])]), axis=0)
-    g_count = grid.shape[0]
+    last = grid.shape[0] - 1
     score = _score(setup, w, grid)
-    best_x, best_f = grid[0].copy(), score[0].copy()                             # stopped
     pad = np.full((1, n), -np.inf)
-    left, right = np.vstack([pad, score[:-1]]), np.vstack([score[1:], pad])
-    peak = np.isfinite(score) & (score >= left) & (score >= right)
-    k = min(PEAKS_REFINED, g_count)
-    ranked = np.argsort(np.where(peak, score, -np.inf), axis=0)[::-1][:k]        # (K, N)
-    cols = np.arange(n)[None, :]
-    valid = np.isfinite(score[ranked, cols]) & peak[ranked, cols]
-    i_lo, i_hi = np.maximum(ranked - 1, 0), np.minimum(ranked + 1, g_count - 1)
-    x_mid = grid[ranked, cols]
-    lo, hi = grid[i_lo, cols], grid[i_hi, cols]
-    # a neighbour past a limit: the bracket ends at the limit's boundary instead (found for the
-    # conditions that need it only)
-    for end, end_index in ((hi, i_hi), (lo, i_lo)):
-        bad = valid & ~np.isfinite(score[end_index, cols])
-        rows, which = np.nonzero(bad)
-        if which.size:
-            part = _wind_part(w, which)
-            inside, outside = x_mid[rows, which], end[rows, which]
-            for _ in range(BOUNDARY_STEPS):
-                mid = 0.5 * (inside + outside)
-                ok = np.isfinite(_score(setup, part, mid))
-                inside, outside = np.where(ok, mid, inside), np.where(ok, outside, mid)
-            end[rows, which] = inside
-    # a finer grid between the bracket ends (two humps closer than a grid step), then the
-    # golden-section search round its best point (the peaks that exist only)
-    rows, which = np.nonzero(valid)
+    peak = np.isfinite(score) & (score >= np.vstack([pad, score[:-1]])) & (score >= np.vstack([score[1:], pad]))
+    ranked = np.argsort(np.where(peak, score, -np.inf), axis=0)[::-1][:PEAKS_REFINED]  # (K, N)
+    rows, which = np.nonzero(peak[ranked, np.arange(n)[None, :]])   # the maxima that exist
+    at = ranked[rows, which]
     part = _wind_part(w, which)
-    a, b = lo[rows, which], hi[rows, which]
-    sub = a[None, :] + np.linspace(0.0, 1.0, SUBGRID_POINTS)[:, None] * (b - a)[None, :]
-    sub_f = _score(setup, part, sub)
+    g = grid[:, which]                                                # (G, M) spins of each
+    f = score[:, which]
+    k = np.arange(which.size)
+    # the bracket reaches two grid steps either way (a hump next to the grid's best point), and
+    # ends at a limit's boundary where a spin in it breaks one
+    ends = []
+    for side in (-1, 1):
+        near, far = np.clip(at + side, 0, last), np.clip(at + 2 * side, 0, last)
+        end = g[far, k].copy()
+        for inside, outside in ((at, near), (near, far)):
+            bad = ~np.isfinite(f[outside, k]) & np.isfinite(f[inside, k]) & (end == g[far, k])
+            if bad.any():
+                sub = np.flatnonzero(bad)
+                end[sub] = _boundary(setup, _wind_part(part, sub), g[inside, k][sub], g[outside, k][sub])
+        ends.append(end)
+    a, b = ends
+    # a finer grid over the bracket (humps closer than a grid step), then golden-section search
+    # round its best point
+    sub_x = a[None, :] + np.linspace(0.0, 1.0, SUBGRID_POINTS)[:, None] * (b - a)[None, :]
+    sub_f = _score(setup, part, sub_x)
     j = np.argmax(sub_f, axis=0)
-    k_all = np.arange(which.size)
-    sub_best_x, sub_best_f = sub[j, k_all], sub_f[j, k_all]
-    a = sub[np.maximum(j - 1, 0), k_all]
-    b = sub[np.minimum(j + 1, SUBGRID_POINTS - 1), k_all]
-    x1, x2 = b - _GOLDEN * (b - a), a + _GOLDEN * (b - a)
-    f1, f2 = _score(setup, part, x1), _score(setup, part, x2)
-    for _ in range(PEAK_STEPS):
-        right = f2 > f1                      # the peak lies in [x1, b], else in [a, x2]
-        a, b = np.where(right, x1, a), np.where(right, b, x2)
-        keep_x, keep_f = np.where(right, x2, x1), np.where(right, f2, f1)
-        new = np.where(right, a + _GOLDEN * (b - a), b - _GOLDEN * (b - a))
-        f_new = _score(setup, part, new)
-        x1, f1 = np.where(right, keep_x, new), np.where(right, keep_f, f_new)
-        x2, f2 = np.where(right, new, keep_x), np.where(right, f_new, keep_f)
-    ends = _score(setup, part, np.stack([lo[rows, which], hi[rows, which]]))
-    for xs, fs in ((x_mid[rows, which], score[ranked, cols][rows, which]), (x1, f1), (x2, f2),
-                   (lo[rows, which], ends[0]), (hi[rows, which], ends[1]), (sub_best_x, sub_best_f)):
-        # the best point met per condition (a condition may appear once per refined peak)
-        order = np.argsort(fs, kind="stable")
-        cand_x, cand_f, cand_c = xs[order], fs[order], which[order]
-        better = cand_f > best_f[cand_c]
-        best_x[cand_c[better]] = cand_x[better]   # later (larger) writes win for repeated conditions
-        best_f[cand_c[better]] = cand_f[better]
+    lo, hi = sub_x[np.maximum(j - 1, 0), k], sub_x[np.minimum(j + 1, SUBGRID_POINTS - 1), k]
+    x_gold, f_gold = _golden(setup, part, lo, hi)
+    # the best point met per condition (stopped, the grid, the finer grid, the search)
+    best_x, best_f = grid[0].copy(), score[0].copy()
+    for xs, fs in ((g[at, k], f[at, k]), (sub_x[j, k], sub_f[j, k]), (x_gold, f_gold)):
+        order = np.argsort(fs, kind="stable")         # a condition may come once per maximum:
+        cx, cf, cc = xs[order], fs[order], which[order]   # the larger write comes last and wins
+        better = cf > best_f[cc]
+        best_x[cc[better]], best_f[cc[better]] = cx[better], cf[better]
     # the operating rule: no spin worth less than the smallest worthwhile gain
     return np.where((best_x > 0) & (best_f > setup.min_gain_w), best_x, 0.0)
 
@@ -711,7 +718,8 @@ def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape
     yaw = res["side"] * x_mean
     spin_dir = np.where(running, -w.side_sign, 0.0)
     power_t = setup.rotor_count * res["power1"]
-    warnings = _warnings(setup, w, omega, res, sr_op, re, flags, mode, n)
+    from liftcore.rotor_warnings import rotor_warnings  # the texts live beside the model
+    warnings = rotor_warnings(setup, w, omega, res, re, flags, mode, n)
 
     def shaped(a):
         return np.asarray(a, dtype=float).reshape(shape)
@@ -739,150 +747,6 @@ def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape
         spin_power_friction_w=shaped(setup.rotor_count * res["power_friction1"]),
     )
 
-
-
-def _count(mask, n) -> str:
-    k = int(np.count_nonzero(mask))
-    return "" if n == 1 else f" (in {k:,} of {n:,} conditions)"
-
-
-def _warnings(setup: RotorSetup, w: _Wind, omega, res, sr_op, re, flags, mode, n) -> tuple:
-    out: list[ModelWarning] = []
-    cs = setup.coefficients
-    running = omega > 0
-    lo, hi = cs.sr_range
-    m = (flags & FLAG_SR_OUTSIDE_DATA) != 0
-    if m.any():
-        sr = res["sr_strip"][m]
-        out.append(ModelWarning(
-            "spin_ratio_outside_data",
-            f"Spin ratio along the rotor reaches {sr.min():.2f} to {sr.max():.2f}, outside the "
-            f"data of the set ({lo:g} to {hi:g}): coefficients are held at the end of the data "
-            f"there{_count(m, n)}.", "spin_ratio"))
-    m = (flags & FLAG_RE_OUTSIDE_DATA) != 0
-    if m.any():
-        r_lo, r_hi = cs.reynolds_range
-        out.append(ModelWarning(
-            "reynolds_outside_data",
-            f"Reynolds number {re[m].min():.2g} to {re[m].max():.2g} is outside the data of the "
-            f"set ({r_lo:.2g} to {r_hi:.2g}): coefficients measured at another scale{_count(m, n)}.",
-            "lift_coefficient"))
-    if cs.two_dimensional:
-        if setup.correct_aspect_ratio:
-            out.append(ModelWarning(
-                "two_dimensional_data",
-                f"The set is two-dimensional: induced drag CL²/(π·{setup.effective_aspect_ratio:.2f}) "
-                "for this rotor's effective aspect ratio is added (lifting-line estimate).",
-                "drag_coefficient"))
-        else:
-            out.append(ModelWarning(
-                "two_dimensional_data",
-                "The set is two-dimensional and no induced drag is added: forces of an endless "
-                "rotor, too optimistic for a real one.", "drag_coefficient"))
-    else:
-        ratio = setup.aspect_ratio / cs.aspect_ratio
-        if not 1 / ASPECT_RATIO_TOLERANCE <= ratio <= ASPECT_RATIO_TOLERANCE:
-            fix = ("its induced drag is moved to this rotor's (lift unchanged)" if setup.correct_aspect_ratio
-                   else "no correction applied")
-            out.append(ModelWarning(
-                "aspect_ratio_unlike_data",
-                f"Aspect ratio H/D = {setup.aspect_ratio:.2f} is unlike the tested rotor's "
-                f"{cs.aspect_ratio:g} (more than ×{ASPECT_RATIO_TOLERANCE:g} apart): {fix}.",
-                "drag_coefficient"))
-    if abs(setup.end_plate_ratio - cs.end_plate_ratio) > END_PLATE_TOLERANCE:
-        out.append(ModelWarning(
-            "end_plates_unlike_data",
-            f"End-plate ratio {setup.end_plate_ratio:g} is unlike the tested rotor's "
-            f"{cs.end_plate_ratio:g}: end plates change the lift of a rotor strongly and the set's "
-            "lift is used unchanged.", "lift_coefficient"))
-    m = (flags & FLAG_WIND_TOO_FAR_FORWARD) != 0
-    if m.any():
-        lim = math.degrees(setup.forward_angle_limit_rad())
-        ang = np.abs(np.degrees(w.beta_mid[m]))
-        out.append(ModelWarning(
-            "apparent_wind_too_far_forward",
-            f"Apparent wind {ang.min():.0f}° to {ang.max():.0f}° off the bow is within {lim:.0f}° "
-            f"of the bow, where no spin ratio of the set gives forward thrust (best lift/drag "
-            f"{1 / math.tan(math.radians(lim)):.1f}){_count(m, n)}.", "thrust_n"))
-    verb = "limited by" if mode == "best" else "above"
-    m = (flags & FLAG_RPM) != 0
-    if m.any():
-        out.append(ModelWarning("rpm_limit", f"Spin {verb} the maximum rotor speed "
-                                             f"{setup.max_rpm:g} rpm{_count(m, n)}.", "rpm"))
-    m = (flags & FLAG_MOTOR_POWER) != 0
-    if m.any():
-        out.append(quantity_warning("motor_power_limit", f"Spin {verb} the maximum motor power "
-                                    f"{{limit}} per rotor{_count(m, n)}.",
-                                    {"limit": (setup.max_motor_power_w, "power")}, "spin_power_w"))
-    m = (flags & FLAG_HEEL) != 0
-    if m.any():
-        what = "Spin limited by" if mode == "best" else "Heeling moment above"
-        out.append(quantity_warning("heel_limit", f"{what} the heeling-moment limit "
-                                    f"{{limit}}{_count(m, n)}" + ("." if mode == "best" else ": reduce spin."),
-                                    {"limit": (setup.max_heeling_moment_nm, "moment")}, "heeling_moment_nm"))
-    m = (flags & FLAG_HEEL_WHEN_STOPPED) != 0
-    if m.any():
-        out.append(quantity_warning("heel_above_limit_when_stopped",
-                                    f"Even the stopped rotors heel the ship more than the limit "
-                                    f"{{limit}}{_count(m, n)}.",
-                                    {"limit": (setup.max_heeling_moment_nm, "moment")}, "heeling_moment_nm"))
-    m = (flags & FLAG_SPIN_RATIO_LIMIT) != 0
-    if m.any():
-        out.append(ModelWarning("spin_ratio_limit",
-                                f"Spin stopped at the highest spin ratio allowed, "
-                                f"{setup.spin_ratio_limit():g} (input or top of the data){_count(m, n)}.",
-                                "spin_ratio"))
-    if mode == "best":
-        m = ~running & (w.va_mid > CALM_M_S)
-        if m.any():
-            costs = m & (res["net"] < 0)
-            cost_text = (" In this wind the still rotors cost up to {loss} of engine power (their drag)."
-                         if costs.any() else "")
-            out.append(quantity_warning(
-                "rotor_stopped",
-                "Rotors stopped: no spin gains more than {threshold}, the smallest worthwhile gain; the "
-                f"still cylinders' drag is counted{_count(m, n)}." + cost_text,
-                {"threshold": (setup.min_gain_w, "power"),
-                 "loss": (-float(res["net"][costs].min()) if costs.any() else 0.0, "power")},
-                "net_power_w"))
-    if not cs.has_power:
-        out.append(ModelWarning("spin_power_from_friction_model",
-                                "The set has no power coefficient: spin power from a skin-friction "
-                                "model (ITTC 1957 line on the surface speed plus a disc end plate; "
-                                "a lower estimate that ignores the cross-flow).", "spin_power_w"))
-    elif setup.spin_power_model == "friction":
-        out.append(ModelWarning("spin_power_from_friction_model",
-                                "Spin power from the skin-friction model, as chosen (the set's own "
-                                "power coefficient is shown beside it).", "spin_power_w"))
-    if cs.drag_from:
-        lender = coef.coefficient_set(cs.drag_from)
-        out.append(ModelWarning("drag_borrowed",
-                                f"The set gives lift only: its drag is borrowed from {lender.label}.",
-                                "drag_coefficient"))
-    if setup.rotor_count > 1:
-        out.append(ModelWarning("rotor_interaction_assumed",
-                                f"{setup.rotor_count} rotors with interaction factor "
-                                f"{setup.interaction_factor:g} (assumed, not computed): forces are "
-                                f"{setup.force_factor:g} times one rotor's.", "thrust_n"))
-        offset = setup.rotor_spacing_m * np.abs(np.sin(w.beta_mid))
-        m = (offset < setup.diameter_m) & (w.va_mid > CALM_M_S)
-        if m.any():
-            out.append(quantity_warning("rotors_in_each_others_wake",
-                                        "With the apparent wind this close to the ship's axis the rotors "
-                                        "stand in each other's wake (offset across the wind "
-                                        "{offset} < diameter {diameter}): "
-                                        f"the interaction factor matters here{_count(m, n)}.",
-                                        {"offset": (offset[m].min(), "length", 2),
-                                         "diameter": (setup.diameter_m, "length")}, "thrust_n"))
-    if (w.ship <= 0).any():
-        m = w.ship <= 0
-        out.append(ModelWarning("zero_ship_speed", "At zero ship speed thrust saves no engine power: "
-                                                   f"the net gain is only the spin power drawn{_count(m, n)}.",
-                                "net_power_w"))
-    m = w.va_mid <= CALM_M_S
-    if m.any():
-        out.append(ModelWarning("calm", f"No apparent wind: no forces{_count(m, n)}.", "thrust_n"))
-    return tuple(out)
 
 
 # ============================================================================ along the span
