@@ -13,6 +13,7 @@ import csv
 import datetime as _dt
 import html
 import io
+import re
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -294,6 +295,7 @@ h2 { font-size: 21px; margin: 28px 0 10px; border-bottom: 2px solid #0072B2; pad
 h3 { font-size: 17px; margin: 18px 0 6px; break-after: avoid; page-break-after: avoid; }
 .meta { color: #444; font-size: 13px; }
 .note { white-space: pre-wrap; margin: 8px 0; }
+.lead { font-size: 1.15em; line-height: 1.45; margin: 6px 0 12px 0; }
 .invented { display: inline-block; border: 1.5px solid #555; padding: 0 6px; font-size: 12px;
             border-radius: 3px; margin-left: 6px; vertical-align: middle; }
 .headlines { display: grid; grid-template-columns: repeat(auto-fill, minmax(165px, 1fr)); gap: 10px; }
@@ -337,6 +339,19 @@ def _plotly_js() -> str:
 
 def _e(x) -> str:
     return html.escape(str(x), quote=True)
+
+
+def bold_html(markdown: str) -> str:
+    """A sentence made by a study with ``**`` round its numbers, as HTML: ``<b>`` for the
+    numbers, everything else escaped."""
+    return re.sub(r"\*\*(.+?)\*\*", r"<b>\1</b>", _e(markdown))
+
+
+def _summary_html(mod, result: StudyResult, system: str) -> str:
+    """The study's sentence about the result (its ``summary``), where it has one."""
+    if not callable(getattr(mod, "summary", None)):
+        return ""
+    return f"<p class=\"lead\">{bold_html(mod.summary(result, system))}</p>"
 
 
 def _figure_html(fig, div_id: str) -> str:
@@ -459,7 +474,8 @@ def scenario_report(s: Scenario, result: StudyResult, unit_system: str | None = 
         f"<p class=\"note\">{_e(s.note)}</p>" if s.note else "",
         f"<p class=\"note\">{_e(data_note)}</p>" if data_note else "",
         "</header>",
-        "<section><h2>Results</h2>", _headline_cards(result, system), "</section>",
+        "<section><h2>Results</h2>", _summary_html(mod, result, system), _headline_cards(result, system),
+        "</section>",
         "<section><h2>Warnings</h2>", _warnings_html(result, system), "</section>",
         f"<section><h2>Cautions</h2>{cautions or '<p>None stated.</p>'}</section>",
         f"<section><h2>Charts</h2>{figs or '<p>This study draws no charts.</p>'}</section>",

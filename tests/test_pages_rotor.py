@@ -172,3 +172,44 @@ def test_measured_air_hides_the_altitude(page):
     assert not page.exception
     shown = {w.key for w in page.number_input}
     assert {key("temperature_k"), key("pressure_pa")} <= shown and key("altitude_m") not in shown
+
+
+def _run(**over):
+    return study.run(study.INPUTS.validate({**study.INPUTS.defaults(), **over}))
+
+
+@pytest.mark.parametrize("model", ["set", "friction"])
+def test_other_spin_power_is_the_other_model_run_at_the_same_spin(model):
+    # The net gain the summary quotes for the estimate not chosen equals a run with that
+    # estimate chosen at the same rotor speed (behaviour, not arithmetic copied from the code).
+    res = _run(spin_power_model=model)
+    one = res.detail.operation.at(())
+    other_power, other_net = study.other_spin_power(res)
+    other_model = "friction" if model == "set" else "set"
+    fixed = _run(spin_power_model=other_model, spin_mode="rpm", spin_rpm=one["rpm"]).detail.operation.at(())
+    assert_allclose(other_power, fixed["spin_power_w"], rtol=1e-6)
+    assert_allclose(other_net, fixed["net_power_w"], rtol=1e-6)
+    text = study.summary(res)
+    assert units.quantity_text(other_power, "power", "SI") in text
+    assert units.quantity_text(other_net, "power", "SI") in text
+
+
+def test_summary_says_why_a_head_wind_stops_the_rotors_and_what_the_drag_costs():
+    res = _run(true_wind_angle_deg=0.0)
+    one = res.detail.operation.at(())
+    assert one["state"] == rotor.STOPPED and one["net_power_w"] < 0
+    text = study.summary(res)
+    assert "stopped" in text and "smallest worthwhile gain" in text
+    assert units.quantity_text(-one["net_power_w"], "power", "SI") in text
+
+
+def test_page_and_handout_carry_the_spin_power_summary(page):
+    from liftcore.report import scenario_report
+    from liftcore.scenario import Scenario
+
+    from liftcore.report import bold_html
+
+    res = _run()
+    assert any(bold_html(study.summary(res)) in m.value for m in page.markdown)
+    html = scenario_report(Scenario(kind="rotor", inputs=res.inputs), res)
+    assert "skin-friction model gives" in html

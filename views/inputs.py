@@ -49,6 +49,7 @@ PAGE_CSS = """<style>
 [data-testid="stMetricValue"] .stMarkdownEllipsis { overflow: visible; }
 [data-testid="stMetricValue"] { font-size: clamp(1.6rem, 2.2vw, 2.25rem); line-height: 1.2; }
 p.lc-summary { font-size: 1.45rem; line-height: 1.45; margin: 0.2rem 0 0.6rem 0; }
+p.lc-summary-small { font-size: 1.1rem; line-height: 1.45; margin: 0.1rem 0 0.6rem 0; }
 </style>"""
 
 

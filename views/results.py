@@ -24,6 +24,7 @@ import streamlit as st
 
 from liftcore import studies, units
 from liftcore.studies import Charts, StudyResult, format_number, run_study
+from liftcore.report import bold_html  # one helper serves page and handout
 from liftcore.validity import ModelWarning
 from liftcore.errors import InputError
 from views.inputs import UNIT_LABELS, input_errors, stop_on_input_errors, unit_system
@@ -258,13 +259,6 @@ def open_tab_only(tabs: dict, key: str) -> None:
                 draw()
 
 
-def bold_html(markdown: str) -> str:
-    """A sentence made by a study with ``**`` round its numbers, as HTML: ``<b>`` for the
-    numbers, everything else escaped."""
-    import html
-    import re
-
-    return re.sub(r"\*\*(.+?)\*\*", r"<b>\1</b>", html.escape(markdown))
 
 
 def units_caption() -> str:

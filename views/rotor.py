@@ -110,6 +110,8 @@ if one["state"] > 0:
 
 st.subheader("What the rotors give")
 results.show_headlines(result, keys=("net_power_w", "thrust_n", "spin_power_w", "heeling_moment_nm"))
+st.markdown(f"<p class='lc-summary-small'>{results.bold_html(study.summary(result, system))}</p>",
+            unsafe_allow_html=True)
 st.subheader("Forces and spin")
 results.show_headlines(result, keys=("side_force_n", "lift_n", "drag_n", "rpm"))
 st.subheader("Wind at the rotor and coefficients")

@@ -17,6 +17,7 @@ from liftcore import coefficients as coef
 from liftcore import figures_rotor
 from liftcore import rotor
 from liftcore import rotor_inputs
+from liftcore import units
 from liftcore.air import AirState, air_inputs, air_state_from_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
@@ -247,6 +248,91 @@ def headlines(op: rotor.Operation) -> tuple:
     )
 
 
+def summary(result: StudyResult, system: str = "SI") -> str:
+    """What the rotors do at this point, in words (``**`` marks the numbers): the state and why,
+    and both spin-power estimates with the net gain each gives. The page writes it under the
+    headlines and the handout under its title.
+
+    Parameters
+    ----------
+    result : StudyResult
+        A rotor study result.
+    system : {"SI", "imperial"}
+        Unit system of the numbers.
+
+    Returns
+    -------
+    str
+        Two to three sentences.
+
+    Notes
+    -----
+    The net gain with the other spin-power estimate is the same thrust with the other power:
+    net' = net + (P_used - P_other) / eta_el, with eta_el the electrical efficiency; the spin is
+    not searched again for it.
+    """
+    d = result.detail
+    one = d.operation.at(())
+    setup = d.setup
+
+    def q(x, kind):
+        return units.quantity_text(x, kind, system)
+
+    state = int(one["state"])
+    if state == rotor.STOPPED:
+        net = float(one["net_power_w"])
+        why = (f"no spin gains more than **{q(setup.min_gain_w, 'power')}**, the smallest worthwhile gain"
+               if d.spin_mode == "best" else "the spin asked for is zero")
+        cost = (f" Still, their drag costs **{q(-net, 'power')}** of engine power in this wind."
+                if net < 0 else "")
+        return f"The rotors are **stopped**: {why}.{cost}"
+    limits = [name for bit, name in ((rotor.FLAG_RPM, "rotor speed"), (rotor.FLAG_MOTOR_POWER, "motor power"),
+                                     (rotor.FLAG_HEEL, "heeling moment"),
+                                     (rotor.FLAG_SPIN_RATIO_LIMIT, "spin ratio"))
+              if int(one.get("flags", 0)) & bit]
+    lead = (f"The rotors run **at their {' and '.join(limits) or 'a'} limit**." if state == rotor.AT_LIMIT
+            else "The rotors **run** at the best spin within the limits." if d.spin_mode == "best"
+            else "The rotors run at the spin asked for.")
+    used = float(one["spin_power_w"])
+    other = other_spin_power(result)
+    if other is None:
+        return (f"{lead} Spin power **{q(used, 'power')}** from the skin-friction model: the set has no "
+                "power coefficient to compare with.")
+    used_name = "the set's power coefficient" if setup.power_from_set else "the skin-friction model"
+    other_name = "the skin-friction model" if setup.power_from_set else "the set's power coefficient"
+    return (f"{lead} Spin power **{q(used, 'power')}** from {used_name} (drives the net gain); "
+            f"{other_name} gives **{q(other[0], 'power')}**, which would make the net gain "
+            f"**{q(other[1], 'power')}** at the same spin.")
+
+
+def other_spin_power(result: StudyResult) -> tuple[float, float] | None:
+    """The spin-power estimate not chosen, and the net gain it gives at the same spin.
+
+    Parameters
+    ----------
+    result : StudyResult
+        A rotor study result.
+
+    Returns
+    -------
+    tuple of float or None
+        (spin power of all rotors [W], net power gain [W]); ``None`` when the set has no power
+        coefficient (only the skin-friction model exists).
+
+    Notes
+    -----
+    Same thrust, other power: net' = net + (P_used - P_other) / eta_el, eta_el the electrical
+    efficiency.
+    """
+    d = result.detail
+    one = d.operation.at(())
+    if d.operation.spin_power_set_w is None:
+        return None
+    other = float(one["spin_power_friction_w"] if d.setup.power_from_set else one["spin_power_set_w"])
+    net = float(one["net_power_w"]) + (float(one["spin_power_w"]) - other) / d.setup.electrical_efficiency
+    return other, net
+
+
 def run(values: dict, progress=None, extra=None) -> StudyResult:
     prog = progress or (lambda fraction, text="": None)
     prog(0.05, "Rotor setup")
@@ -311,6 +397,8 @@ OPERATING_UNITS = {
     "drag_n": ("drag", "large_force"), "thrust_n": ("thrust", "large_force"),
     "side_force_n": ("side force", "large_force"), "heeling_moment_nm": ("heeling moment", "moment"),
     "yaw_moment_nm": ("yaw moment", "moment"), "spin_power_w": ("spin power (shaft)", "power"),
+    "spin_power_set_w": ("spin power from the set's power coefficient", "power"),
+    "spin_power_friction_w": ("spin power from the skin-friction model", "power"),
     "electrical_power_w": ("electric power drawn", "power"),
     "propulsion_power_saved_w": ("engine power saved", "power"),
     "net_power_w": ("net power gain", "power"),
@@ -337,7 +425,7 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
     as quantity, value, unit rows); the sweep gives the rotor state in words."""
     d = result.detail
     one = d.operation.at(())
-    rows = [(label, one[k], kind) for k, (label, kind) in OPERATING_UNITS.items()]
+    rows = [(label, one.get(k, math.nan), kind) for k, (label, kind) in OPERATING_UNITS.items()]
     rows.append(("rotor state (0 stopped, 1 running, 2 at a limit)", float(one["state"]), "ratio"))
     op = quantity_table(rows, system)
     def shown(name, kinds):
@@ -356,13 +444,14 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
 # ----------------------------------------------------------------------------- tables (SI)
 def operating_table(d: RotorStudyDetail) -> pd.DataFrame:
     one = d.operation.at(())
-    rows = [(k, one[k]) for k in ("apparent_wind_speed_m_s", "apparent_wind_angle_deg",
+    rows = [(k, one.get(k, math.nan)) for k in ("apparent_wind_speed_m_s", "apparent_wind_angle_deg",
                                    "apparent_wind_speed_ref_m_s", "apparent_wind_angle_ref_deg",
                                    "spin_ratio", "spin_ratio_span_min", "spin_ratio_span_max", "rpm",
                                    "reynolds_number", "lift_coefficient", "drag_coefficient",
                                    "power_coefficient", "lift_n", "drag_n", "thrust_n",
                                    "side_force_n", "heeling_moment_nm", "yaw_moment_nm",
-                                   "spin_power_w", "electrical_power_w", "propulsion_power_saved_w",
+                                   "spin_power_w", "spin_power_set_w", "spin_power_friction_w",
+                                   "electrical_power_w", "propulsion_power_saved_w",
                                    "net_power_w", "state")]
     return pd.DataFrame(rows, columns=["quantity", "value"])
 
