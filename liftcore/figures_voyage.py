@@ -197,3 +197,29 @@ def sweep_payback(df, entered: dict, system: str = "SI") -> go.Figure:
     fig.update_xaxes(dtick=1)
     fig.update_yaxes(rangemode="tozero")
     return finish(fig)
+
+
+def _short_set(label: str) -> str:
+    """The source of a set's label ("Bordogna et al. 2019"), or the label itself."""
+    return label[label.index("(") + 1:label.index(")")] if "(" in label and ")" in label else label
+
+
+def spread_bars(df, central_kg: float, system: str = "SI") -> go.Figure:
+    """Fuel saved per year with each published coefficient set and spin-power estimate, the
+    entered one darker and the central value a dashed line: the spread of the data in one look."""
+    unit = _u("fuel_mass", system)
+    fig = base_figure("Fuel saved per year across the published data", f"Fuel saved per year [{unit}]",
+                      height=max(260, 90 + 48 * len(df)),
+                      subtitle="Each bar: the same year with one coefficient set and spin-power estimate")
+    if df is None or len(df) == 0:
+        return finish(fig)
+    names = [f"{_short_set(s)}, {p}" for s, p in zip(df["set"], df["spin_power"])]
+    x = _show(df["annual_fuel_saved_kg"].to_numpy(), "fuel_mass", system)
+    cols = [colour(0) if c else "#9fb3c8" for c in df["chosen"]]
+    fig.add_trace(go.Bar(x=x, y=names, orientation="h", marker_color=cols, showlegend=False,
+                         text=[f"{v:,.0f}" for v in x], textposition="auto",
+                         hovertemplate="%{y}: %{x:,.4g} " + unit + "<extra></extra>"))
+    fig.add_vline(x=float(_show(central_kg, "fuel_mass", system)), line_dash="dash", line_color="#000000",
+                  line_width=2)
+    fig.update_yaxes(autorange="reversed", automargin=True)
+    return finish(fig)

@@ -295,6 +295,7 @@ h2 { font-size: 21px; margin: 28px 0 10px; border-bottom: 2px solid #0072B2; pad
 h3 { font-size: 17px; margin: 18px 0 6px; break-after: avoid; page-break-after: avoid; }
 .meta { color: #444; font-size: 13px; }
 .note { white-space: pre-wrap; margin: 8px 0; }
+.spread { color: #333; font-size: 0.9em; margin-top: 2px; }
 .lead { font-size: 1.15em; line-height: 1.45; margin: 6px 0 12px 0; }
 .invented { display: inline-block; border: 1.5px solid #555; padding: 0 6px; font-size: 12px;
             border-radius: 3px; margin-left: 6px; vertical-align: middle; }
@@ -390,6 +391,8 @@ def _headline_cards(result: StudyResult, system: str) -> str:
                         if w.subject == h.key)
         if h.note(system):
             warns = f"<div class=\"note\">{_e(h.note(system))}</div>" + warns
+        if h.spread_text(system):
+            warns = f"<div class=\"spread\">{_e(h.spread_text(system))}</div>" + warns
         cards.append(f"<div class=\"card\"><div class=\"label\">{_e(h.label)}</div>"
                      f"<div class=\"value\">{_e(h.text(system))}</div>{warns}</div>")
     return f"<div class=\"headlines\">{''.join(cards)}</div>"

@@ -554,16 +554,61 @@ def best_operation(setup: RotorSetup, ship_speed_m_s, true_wind_speed_m_s, true_
     function; its error in the net gain is far below a thousandth, which the benchmark checks
     against a 4001-point scan of the same function.
     """
+    return best_operations((setup,), ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad, progress)[0]
+
+
+def best_operations(setups, ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad,
+                    progress=None) -> list[Operation]:
+    """:func:`best_operation` for several setups that differ only in coefficients, spin-power
+    model or limits: the wind triangle and the strip winds are computed once for all of them.
+
+    Parameters
+    ----------
+    setups : sequence of RotorSetup
+        Setups with the same rotor geometry, wind profile and air (what the wind along the rotor
+        depends on); e.g. one rotor with every published coefficient set.
+    ship_speed_m_s, true_wind_speed_m_s : float or ndarray
+        Ship speed and true wind speed at the reference height. [m s^-1]
+    true_wind_angle_rad : float or ndarray
+        Relative bearing the true wind comes from. [rad]
+    progress : callable, optional
+        ``progress(fraction, text)`` over all setups and blocks.
+
+    Returns
+    -------
+    list of Operation
+        One per setup, in order.
+
+    Raises
+    ------
+    ValueError
+        When the setups do not share the wind along the rotor.
+    """
+    setups = tuple(setups)
     shape, (vs, vt, g) = _prepare(ship_speed_m_s, true_wind_speed_m_s, true_wind_angle_rad)
-    w = _wind(setup, vs, vt, g)
+    first = setups[0]
+    if any(_wind_key(s) != _wind_key(first) for s in setups[1:]):
+        raise ValueError("best_operations needs setups with the same geometry, wind profile and air")
+    w = _wind(first, vs, vt, g)
     n = vs.size
-    omega = np.empty(n)
-    for start in range(0, n, BLOCK):
-        sl = slice(start, min(n, start + BLOCK))
-        omega[sl] = _best_omega(setup, _wind_part(w, sl))
-        if progress is not None and n > BLOCK:
-            progress(sl.stop / n, f"Best spin for {n:,} conditions")
-    return operation_at(setup, w, omega, shape)
+    out = []
+    for i, setup in enumerate(setups):
+        omega = np.empty(n)
+        for start in range(0, n, BLOCK):
+            sl = slice(start, min(n, start + BLOCK))
+            omega[sl] = _best_omega(setup, _wind_part(w, sl))
+            if progress is not None and (n > BLOCK or len(setups) > 1):
+                progress((i + sl.stop / n) / len(setups), f"Best spin for {n:,} conditions"
+                         + (f", set {i + 1} of {len(setups)}" if len(setups) > 1 else ""))
+        out.append(operation_at(setup, w, omega, shape))
+    return out
+
+
+def _wind_key(setup: RotorSetup) -> tuple:
+    """What :func:`_wind` reads from a setup."""
+    return (setup.diameter_m, setup.height_m, setup.base_height_m, setup.strips, setup.wind_profile,
+            setup.reference_height_m, setup.profile_parameter, setup.air_density_kg_m3,
+            setup.heel_reference_depth_m)
 
 
 def operation_at(setup: RotorSetup, w: "_Wind", omega, shape) -> Operation:

@@ -865,6 +865,41 @@ def summarise(t: Tally, ship: ShipEconomics, hours_at_sea_per_year: float | None
         rows=t.rows, weight=t.weight, warnings=merge_warnings(warnings))
 
 
+def summaries_over(setups, conditions: dict, ship: ShipEconomics, hours_at_sea_per_year: float | None = None,
+                   progress=None) -> list[VoyageSummary]:
+    """The year of several rotor setups over the same weighted conditions, the wind along the
+    rotor computed once for all (:func:`liftcore.rotor.best_operations`).
+
+    Parameters
+    ----------
+    setups : sequence of liftcore.rotor.RotorSetup
+        Setups sharing geometry, wind profile and air (e.g. one rotor with each published set).
+    conditions : dict
+        Arrays ``ship_speed_m_s`` [m/s], ``true_wind_speed_m_s`` [m/s], ``true_wind_angle_deg``
+        [deg] and ``weight`` [h or probability].
+    ship : ShipEconomics
+        Fuel, prices and hours at sea.
+    hours_at_sea_per_year : float, optional
+        Overrides ``ship.hours_at_sea_per_year``. [h]
+    progress : callable, optional
+        ``progress(fraction, text)``.
+
+    Returns
+    -------
+    list of VoyageSummary
+        One per setup, in order.
+    """
+    vs = np.asarray(conditions["ship_speed_m_s"], dtype=float).ravel()
+    w = np.broadcast_to(np.asarray(conditions["weight"], dtype=float), vs.shape).ravel()
+    sea = (vs > 0.0) & (w > 0.0)
+    vs, w = vs[sea], w[sea]
+    tws = np.asarray(conditions["true_wind_speed_m_s"], dtype=float).ravel()[sea]
+    twa = windstats.wrap_angle_deg(np.asarray(conditions["true_wind_angle_deg"], dtype=float).ravel()[sea])
+    ops = rotor.best_operations(setups, vs, tws, np.radians(twa), progress=progress)
+    return [summarise(tally_conditions(lambda *_a, op=op: op, vs, tws, twa, w), ship, hours_at_sea_per_year)
+            for op in ops]
+
+
 # ----------------------------------------------------------------------------- views of a tally
 def heat_table(t: Tally) -> pd.DataFrame:
     """Share of time and contribution to the mean net power gain per (|angle|, speed) cell."""

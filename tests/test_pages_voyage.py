@@ -103,3 +103,14 @@ def test_imperial_tables_are_converted_with_the_unit_in_the_column_name():
     assert summary.loc["CO₂ avoided per year", "unit"] == "US ton"
     assert summary.loc["CO₂ avoided per year", "value"] == pytest.approx(
         units.to_display(r.detail.summary.annual_co2_avoided_kg, "fuel_mass", "imperial"))
+
+
+def test_headlines_carry_the_published_range_and_the_spread_tab_draws_it():
+    at = page().run()
+    r = run_study("voyage", {"sweep": False})
+    fuel = next(h for h in r.headlines if h.key == "annual_fuel_saved")
+    assert fuel.spread_text("SI") in [c.value for c in at.caption]
+    at.session_state["voyage_tab"] = "Across the published data"
+    at.run()
+    assert not at.exception and len(at.get("plotly_chart")) == 1
+    assert len(at.dataframe) == 1 and len(at.dataframe[0].value) == 5

@@ -204,6 +204,8 @@ def show_headlines(result: StudyResult, keys=None, columns: int = 4) -> None:
                 st.metric(h.label, h.text(system), help=h.help or None)
                 if h.note(system):
                     st.caption(h.note(system))
+                if h.spread_text(system):
+                    st.caption(h.spread_text(system))
                 for w in result.warnings:
                     if w.subject == h.key:
                         warning_box(w, small=True)

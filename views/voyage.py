@@ -115,6 +115,19 @@ def _gain_tab():
                 show_figure(figs["By leg"], key="voyage:legs")
 
 
+def _spread_tab():
+    if d.spread is None:
+        st.info("Switch on *Show the spread across the published coefficient sets* under Design "
+                "options in the sidebar.", icon=":material/tune:")
+        return
+    st.markdown("The same year with every published coefficient set and each spin-power estimate "
+                "it has: the spread is the uncertainty of the aerodynamic data alone (the wind "
+                "statistics, routing and crew add theirs). The darker bar is the entered set.")
+    show_figure(figs["Across the published data"], key="voyage:spread")
+    st.caption(d.spread_note)
+    st.dataframe(study_tables(study, result)["published_spread"], hide_index=True)
+
+
 def _design_tab():
     if not values["sweep"]:
         st.info("Switch on *Compare rotor sizes and counts* under Design options in the sidebar.",
@@ -145,7 +158,8 @@ def _tables_tab():
                            file_name=f"voyage_{name}.csv", mime="text/csv", key=f"voyage:csv:{name}")
 
 
-TABS = {"Where the gain comes from": _gain_tab, "Design options: which size, how many?": _design_tab,
+TABS = {"Where the gain comes from": _gain_tab, "Across the published data": _spread_tab,
+        "Design options: which size, how many?": _design_tab,
         "Tables to download": _tables_tab}
 open_tab_only(TABS, "voyage_tab")
 

@@ -99,6 +99,9 @@ def add_parser(sub):
     c.add_argument("--sweep", action="store_true",
                    help="also compare rotor sizes and counts (design_options in --json)")
     c.add_argument("--sweep-max-rotors", type=int, help="most rotors in the comparison (default 6)")
+    c.add_argument("--no-spread", action="store_true",
+                   help="skip the year with every published coefficient set and spin-power estimate "
+                        "(the *_range keys are then null)")
     d = {f.key: f.default for f in study.INPUTS.fields}
     r = p.add_argument_group("rotor, wind profile, coefficients, limits (as in the rotor command)")
     for dest, (key, factor, text) in ROTOR_OPTIONS.items():
@@ -123,7 +126,8 @@ def values_from_args(args) -> tuple[dict, str]:
     kind, path = (("table", args.wind_table) if args.wind_table else
                   ("weibull", args.weibull) if args.weibull else ("series", args.wind_series))
     v = {"diameter_m": args.diameter_m, "height_m": args.height_m, "rotor_count": args.rotors,
-         "fuel": args.fuel, "wind_kind": kind, "sweep": bool(args.sweep)}
+         "fuel": args.fuel, "wind_kind": kind, "sweep": bool(args.sweep),
+         "published_spread": not args.no_spread}
     for dest, (key, factor, _) in ROTOR_OPTIONS.items():
         x = getattr(args, dest)
         if x is not None:
@@ -218,6 +222,8 @@ def execute(args, progress):
     data = dict(result.json)
     if result.detail.sweep is not None:
         data["design_options"] = result.detail.sweep.to_dict(orient="records")
+    if result.detail.spread is not None:
+        data["published_spread"] = result.detail.spread.to_dict(orient="records")
     rows = [(h.label, _text(h)) for h in result.headlines]
     rows += [("Wind", f"{result.detail.wind_source} ({result.detail.conditions:,} "
                       f"{'rows' if result.detail.wind_kind == 'series' else 'conditions'}, "
@@ -229,4 +235,4 @@ def execute(args, progress):
 def _text(h) -> str:
     if h.key == "payback" and not math.isfinite(h.value):
         return "never"
-    return h.text("SI")
+    return h.text("SI") + (f" ({h.spread_text('SI')})" if h.spread_text("SI") else "")

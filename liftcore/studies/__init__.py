@@ -34,7 +34,7 @@ from __future__ import annotations
 import importlib
 import threading
 from collections.abc import Sequence
-from dataclasses import dataclass, field as dc_field  # not `field`: that is a study kind
+from dataclasses import dataclass, field as dc_field, replace  # not `field`: that is a study kind
 from typing import Any, Callable
 
 from liftcore import units
@@ -67,6 +67,9 @@ class Headline:
     resolution_note: str = "agrees with 0 to round-off"
     #: Text after the number for quantities without a unit of their own (a currency: "EUR").
     unit: str = ""
+    #: (low, high) in core units where the number has a stated spread, and what it spans.
+    spread: tuple | None = None
+    spread_note: str = "across the published data"
 
     def shown(self, system: str = "SI") -> tuple[float, str]:
         """(value, unit label) in ``system``."""
@@ -85,6 +88,13 @@ class Headline:
         v, u = self.shown(system)
         number = "0" if self.below_resolution(system) else format_number(v, self.digits)
         return units.with_unit(number, u)
+
+    def spread_text(self, system: str = "SI") -> str:
+        """The spread as a person says it ("380 to 560 t across the published data"), or ""."""
+        if self.spread is None:
+            return ""
+        lo, hi = (replace(self, value=x, spread=None).text(system) for x in self.spread)
+        return f"{lo} to {hi} {self.spread_note}"
 
     def note(self, system: str = "SI") -> str:
         """What to say under the number: ``resolution_note`` when it shows as 0, else nothing."""

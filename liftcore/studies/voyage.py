@@ -20,6 +20,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from liftcore import coefficients as coef
 from liftcore import figures_voyage as fv
 from liftcore import rotor, windstats
 from liftcore import rotor_inputs
@@ -110,6 +111,9 @@ VOYAGE_FIELDS = (
     number("imo_total_efficiency", "Total efficiency of the main drive η_T", "ratio",
            vy.IMO_DEFAULT_TOTAL_EFFICIENCY, 0.1, 1.0, section=_I, advanced=True, step=0.01,
            help="0.7 unless another value is verified (MEPC.1/Circ.815, Annex 11, App. 2)."),
+    flag("published_spread", "Show the spread across the published coefficient sets", True, section=_D,
+         help="The year again with every published set and both spin-power estimates: the range "
+              "beside fuel, CO₂ and net power (the uncertainty of the aerodynamic data)."),
     flag("sweep", "Compare rotor sizes and counts", True, section=_D,
          help="Annual savings for 0.6, 0.8, 1.0 and 1.2 times the entered rotor, from 1 rotor up to "
               "the number below."),
@@ -171,6 +175,9 @@ class VoyageDetail:
     sweep: pd.DataFrame | None
     sweep_note: str
     coefficient_set: dict
+    #: The year with every published set and spin-power estimate (:func:`published_spread`).
+    spread: pd.DataFrame | None = None
+    spread_note: str = ""
 
 
 def economics_from_values(values: dict) -> vy.ShipEconomics:
@@ -241,6 +248,89 @@ def _use_dask(source) -> str | None:
     return "local" if vy.estimate_rows(source) > vy.DASK_AUTO_ROWS else None
 
 
+#: Summary fields carried across the published data, and the headline each qualifies.
+SPREAD_FIELDS = {"mean_net_power_w": "mean_net_power", "annual_fuel_saved_kg": "annual_fuel_saved",
+                 "annual_co2_avoided_kg": "annual_co2_avoided"}
+SPIN_POWER_WORDS = {"set": "set's power coefficient", "friction": "skin-friction model"}
+
+
+def spread_setups(setup: rotor.RotorSetup) -> list[tuple[coef.CoefficientSet, str, rotor.RotorSetup]]:
+    """The entered rotor with every published coefficient set and both spin-power estimates
+    (sets without a power coefficient have only the skin-friction one): (set, model, setup)."""
+    out = []
+    for cs in coef.published_sets().values():
+        for model in rotor.SPIN_POWER_MODELS:
+            if model == "set" and not cs.has_power:
+                continue
+            out.append((cs, model, replace(rotor.with_coefficients(setup, cs), spin_power_model=model)))
+    return out
+
+
+def published_spread(setup: rotor.RotorSetup, central: vy.VoyageSummary, conditions: dict,
+                     ship: vy.ShipEconomics, hours: float, binned: bool, progress=None) -> tuple[pd.DataFrame, str]:
+    """The year with every published set and spin-power estimate beside the central one.
+
+    Parameters
+    ----------
+    setup : liftcore.rotor.RotorSetup
+        The entered rotor (the central result).
+    central : VoyageSummary
+        The year of ``setup`` over the exact conditions.
+    conditions : dict
+        Weighted conditions to run the variants on (see :func:`liftcore.voyage.summaries_over`):
+        the exact ones for a table, the binned ones for an hourly series.
+    ship : VoyageSummary
+        Economics of the year.
+    hours : float
+        Hours at sea per year. [h]
+    binned : bool
+        Whether ``conditions`` are binned (then the variants are corrected, see Notes).
+    progress : callable, optional
+        ``progress(fraction, text)``.
+
+    Returns
+    -------
+    (pandas.DataFrame, str)
+        One row per variant (``set``, ``spin_power``, ``chosen`` and the fields of
+        :data:`SPREAD_FIELDS` in core units), and a note on how it was computed.
+
+    Notes
+    -----
+    On binned conditions each variant is reported as central + (variant - entered), both of
+    the latter on the bins: the binning error, the same to first order for every set, cancels.
+    The wind along the rotor is computed once for all variants.
+    """
+    variants = spread_setups(setup)
+    runs = vy.summaries_over([setup] + [v[2] for v in variants], conditions, ship, hours, progress)
+    base = runs[0]
+    chosen_model = "set" if setup.power_from_set else "friction"
+    rows = []
+    for (cs, model, _), s in zip(variants, runs[1:]):
+        row = {"set": cs.label, "spin_power": SPIN_POWER_WORDS[model],
+               "chosen": cs.name == setup.coefficients.name and model == chosen_model}
+        row.update({k: getattr(central, k) + getattr(s, k) - getattr(base, k) for k in SPREAD_FIELDS})
+        if row["chosen"]:
+            row.update({k: getattr(central, k) for k in SPREAD_FIELDS})
+        rows.append(row)
+    if not any(r["chosen"] for r in rows):
+        rows.insert(0, {"set": setup.coefficients.label, "spin_power": SPIN_POWER_WORDS[chosen_model],
+                        "chosen": True, **{k: getattr(central, k) for k in SPREAD_FIELDS}})
+    note = (f"{len(variants)} runs: every published coefficient set with each spin-power estimate it has. ")
+    if binned:
+        note += ("For speed they run on the hourly rows binned (ship speed 0.5 m/s × angle 10° × "
+                 "wind 1 m/s); each is shown as the exact central value plus its difference from "
+                 "the entered set on the same bins.")
+    return pd.DataFrame(rows), note.strip()
+
+
+def spread_range(d: "VoyageDetail", field: str) -> tuple[float, float] | None:
+    """(low, high) of a summary field over the spread (the central value included), or None."""
+    if d.spread is None or not len(d.spread):
+        return None
+    v = np.append(d.spread[field].to_numpy(dtype=float), getattr(d.summary, field))
+    return float(v.min()), float(v.max())
+
+
 def run(values: dict, progress=None, extra=None) -> StudyResult:
     def step(lo, hi):
         if progress is None:
@@ -254,7 +344,9 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     source, label = _wind_source(values, extra)
     speeds, shares = vy.parse_speed_profile(values["speed_profile_kn"], values["ship_speed_m_s"])
     sweep_on = values["sweep"]
-    main_end = 0.55 if sweep_on else 0.9
+    spread_on = values["published_spread"]
+    main_end = (0.45 if sweep_on else 0.7) if spread_on else (0.55 if sweep_on else 0.9)
+    spread_end = main_end + (0.2 if spread_on else 0.0)
     engine = "in memory"
     hours = ship.hours_at_sea_per_year
     hours_source = "entered"
@@ -290,8 +382,16 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     summary = vy.summarise(tally, ship, hours)
     if kind == "series":
         summary = replace(summary, warnings=summary.warnings + vy.series_warnings(tally))
+    spread, spread_note = None, ""
+    if spread_on:
+        if progress:
+            progress(main_end, "The year with every published coefficient set")
+        binned = kind == "series"
+        spread_conditions = imo_conditions if binned else c
+        spread, spread_note = published_spread(setup, summary, spread_conditions, ship, hours, binned,
+                                               progress=step(main_end, spread_end))
     if progress:
-        progress(main_end, "IMO wind-propulsion term")
+        progress(spread_end, "IMO wind-propulsion term")
 
     # IMO term: force and power matrices at V_ref over the same wind probabilities
     if values["reference_speed_m_s"] > 0:
@@ -318,7 +418,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
             sweep_note = ("For speed the options are compared on the wind conditions binned (ship "
                           "speed 0.5 m/s × angle 10° × wind 1 m/s, each bin at its mean condition).")
         sweep_df = vy.sweep_design_options(lambda o: operate_for(sweep_setup(setup, o)), options,
-                                           sweep_conditions, ship, hours, progress=step(main_end + 0.05, 1.0))
+                                           sweep_conditions, ship, hours, progress=step(spread_end + 0.05, 1.0))
         at = sweep_df[np.isclose(sweep_df["diameter_m"], setup.diameter_m)
                       & (sweep_df["rotors"] == setup.rotor_count)]
         if len(at) and sweep_note:
@@ -338,27 +438,31 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                           conditions=int(n_conditions), engine=engine, hours_source=hours_source,
                           imo_effective_power_w=imo_kw * 1000.0, imo_reference_speed_m_s=float(v_ref),
                           sweep=sweep_df, sweep_note=sweep_note.strip(),
-                          coefficient_set=setup.coefficients.describe())
+                          coefficient_set=setup.coefficients.describe(), spread=spread,
+                          spread_note=spread_note)
     return _result(values, detail)
 
 
 def _result(values: dict, d: VoyageDetail) -> StudyResult:
     s = d.summary
     fuel = values["fuel"]
+    spread = {k: spread_range(d, f) for f, k in SPREAD_FIELDS.items()}
     heads = [
         Headline("mean_net_power", "Net power gain, mean at sea", s.mean_net_power_w, "power",
                  help="Main-engine power saved (thrust × speed / propulsive efficiency) minus the "
-                      "electric power to spin the rotors, averaged over the time at sea."),
+                      "electric power to spin the rotors, averaged over the time at sea.",
+                 spread=spread["mean_net_power"]),
         Headline("mean_thrust", "Thrust, mean at sea", s.mean_thrust_n, "large_force",
                  help="Forward force of all rotors, averaged over the time at sea."),
         Headline("annual_energy_saved", "Net energy saved per year", s.annual_energy_saved_j, "energy",
                  help=f"Mean net power gain × {s.hours_at_sea_per_year:,.0f} h at sea per year "
                       f"({d.hours_source})."),
         Headline("annual_fuel_saved", "Fuel saved per year", s.annual_fuel_saved_kg, "fuel_mass",
-                 help="Main-engine energy saved × its SFOC minus spin energy × generator SFOC."),
+                 help="Main-engine energy saved × its SFOC minus spin energy × generator SFOC.",
+                 spread=spread["annual_fuel_saved"]),
         Headline("annual_co2_avoided", "CO₂ avoided per year", s.annual_co2_avoided_kg, "fuel_mass",
                  help=f"Fuel saved × {CO2_FACTOR_T_PER_T[fuel]} t CO₂ per t of "
-                      f"{vy.FUEL_LABELS[fuel]} (IMO MEPC.364(79))."),
+                      f"{vy.FUEL_LABELS[fuel]} (IMO MEPC.364(79)).", spread=spread["annual_co2_avoided"]),
         Headline("annual_cost_saved", "Money saved per year", s.annual_cost_saved, "money",
                  help="Fuel cost saved + carbon cost avoided − upkeep.", unit=values["currency"]),
         Headline("payback", "Simple payback, years",
@@ -398,10 +502,17 @@ def _result(values: dict, d: VoyageDetail) -> StudyResult:
         "wind_kind": d.wind_kind, "wind_source": d.wind_source, "conditions": d.conditions,
         "computed": d.engine, "hours_at_sea_source": d.hours_source,
         "coefficient_set": d.coefficient_set["name"], "currency": values["currency"],
+        "annual_fuel_saved_t_range": _json_range(spread["annual_fuel_saved"], 1e-3),
+        "annual_co2_avoided_t_range": _json_range(spread["annual_co2_avoided"], 1e-3),
+        "mean_net_power_kw_range": _json_range(spread["mean_net_power"], 1e-3),
         "warnings": [w.as_dict() for w in warnings],
     })
     return StudyResult(kind=KIND, inputs=dict(values), headlines=tuple(heads), warnings=tuple(warnings),
                        figures=figures(d, values), tables=tables(d), detail=d, json=j)
+
+
+def _json_range(r, scale: float):
+    return None if r is None else [r[0] * scale, r[1] * scale]
 
 
 def _years(y: float) -> str:
@@ -414,6 +525,9 @@ def figures(d: VoyageDetail, values: dict, system: str = "SI") -> Charts:
     out = [("Wind rose of the input", lambda: fv.wind_rose(t, system)),
            ("Net gain over wind angle and speed", lambda: fv.gain_heat_map(t, system)),
            ("Operating time", lambda: fv.operating_time(d.summary))]
+    if d.spread is not None:
+        out.append(("Across the published data",
+                    lambda: fv.spread_bars(d.spread, d.summary.annual_fuel_saved_kg, system)))
     if d.wind_kind == "series":
         out.append(("By month", lambda: fv.month_bars(vy.month_table(t, d.summary.hours_at_sea_per_year), system)))
         legs = vy.leg_table(t, d.summary.hours_at_sea_per_year)
@@ -440,6 +554,8 @@ def tables(d: VoyageDetail) -> dict:
         legs = vy.leg_table(d.tally, d.summary.hours_at_sea_per_year)
         if len(legs):
             out["by_leg"] = legs
+    if d.spread is not None:
+        out["published_spread"] = d.spread
     if d.sweep is not None:
         out["design_options"] = d.sweep
     return out
