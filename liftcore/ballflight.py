@@ -33,7 +33,9 @@ Integrators (vectorised over flights in numpy):
 
 from __future__ import annotations
 
+import io
 import math
+from pathlib import Path
 from dataclasses import dataclass, field, replace
 from typing import Callable
 
@@ -999,6 +1001,10 @@ def read_tracks(source) -> "pd.DataFrame":
     if isinstance(source, pd.DataFrame):
         df = source.copy()
     else:
+        if isinstance(source, (str, Path)):
+            from liftcore.files import read_bytes  # regular files only, the cap applied while reading
+
+            source = io.BytesIO(read_bytes(source, "tracks file"))
         try:
             df = pd.read_csv(source, comment="#", skipinitialspace=True)
         except Exception as exc:  # pandas raises several types for malformed text

@@ -46,6 +46,10 @@ MIN_POINTS_PER_AXIS = 4
 GRID_TOLERANCE = 1e-3
 #: Interpolation samples per grid step along a loop.
 SAMPLES_PER_CELL = 8
+#: Most loops, and most sample points over all loops (a loop that fits a grid of
+#: MAX_FIELD_POINTS points has far fewer; this bounds what a user input can make).
+MAX_LOOPS = 200
+MAX_LOOP_POINTS = 2_000_000
 LOOP_SHAPES = ("circle", "rectangle")
 REQUIRED_COLUMNS = ("x", "y", "u", "v")
 #: The shipped demo field (invented: ideal flow + synthetic wake + noise; see liftcore.demo_field).
@@ -112,12 +116,9 @@ def read_field_csv(source, name: str = "velocity field") -> pd.DataFrame:
         The rows as read; :func:`field_from_table` validates them.
     """
     if isinstance(source, (str, Path)):
-        p = Path(source)
-        size = p.stat().st_size
-        if size > MAX_FIELD_BYTES:
-            raise InputError("file", f"{name} is {size} bytes; field files must be at most "
-                                     f"{MAX_FIELD_BYTES} bytes")
-        data = p.read_bytes()
+        from liftcore.files import read_bytes  # regular files only, the cap applied while reading
+
+        data = read_bytes(source, name, MAX_FIELD_BYTES)
     elif isinstance(source, (bytes, bytearray)):
         data = bytes(source)
     else:
@@ -338,6 +339,24 @@ def loop_family(shape: str, centre_m, sizes_m, step_m: float, aspect: float = 1.
     return [rectangle_loop(centre_m, aspect * float(s), float(s), step_m) for s in sizes_m]
 
 
+def _outline(shape: str, centre_m, size_m: float, aspect: float) -> Loop:
+    """A loop's outline without its sample points (what :func:`check_loop` reads)."""
+    a = size_m if shape == "circle" else aspect * size_m
+    label = (f"circle, radius {size_m:.4g} m" if shape == "circle"
+             else f"rectangle, {2 * a:.4g} m wide, {2 * size_m:.4g} m high")
+    empty = np.empty(0)
+    return Loop(shape, size_m, label, tuple(centre_m), a, size_m, empty, empty, empty, empty)
+
+
+def _loop_points(outline: Loop, step_m: float) -> int:
+    """Sample points :func:`circle_loop` / :func:`rectangle_loop` would make for this outline."""
+    a, b = outline.half_width_m, outline.half_height_m
+    if outline.shape == "circle":
+        return max(256, math.ceil(2.0 * math.pi * a * SAMPLES_PER_CELL / step_m))
+    return 2 * (max(16, math.ceil(2 * a * SAMPLES_PER_CELL / step_m))
+                + max(16, math.ceil(2 * b * SAMPLES_PER_CELL / step_m)))
+
+
 def check_loop(field: VelocityField, loop: Loop, body_centre_m, body_radius_m: float,
                number: int | None = None) -> None:
     """Refuse a loop that leaves the grid, does not enclose the body, or comes within one grid
@@ -521,13 +540,22 @@ def circulation_from_field(field: VelocityField, body_centre_m, body_radius_m: f
     sizes = np.asarray([check_positive("loop size", s, "m") for s in loop_sizes_m], dtype=float)
     if sizes.size < 1:
         raise InputError("number of loops", "number of loops must be at least 1 (got 0)")
+    if sizes.size > MAX_LOOPS:
+        raise InputError("number of loops", f"number of loops must be at most {MAX_LOOPS} (got {sizes.size})")
     step = min(field.spacing_m)
-    loops = loop_family(shape, (bx, by), sizes, step, asp)
+    # every loop is checked on its outline before any point of any loop is made: a loop too
+    # large for the grid is refused without building it
+    outlines = [_outline(shape, (bx, by), float(sz), asp) for sz in sizes]
     # the largest and the smallest loop first, so a message names the size the user set
-    order = sorted(range(len(loops)), key=lambda k: -sizes[k])
+    order = sorted(range(len(outlines)), key=lambda k: -sizes[k])
     order = [order[0], order[-1]] + order[1:-1] if len(order) > 1 else order
     for k in order:
-        check_loop(field, loops[k], (bx, by), rb, number=k + 1)
+        check_loop(field, outlines[k], (bx, by), rb, number=k + 1)
+    points = sum(_loop_points(o, step) for o in outlines)
+    if points > MAX_LOOP_POINTS:
+        raise InputError("number of loops", f"the loops would need {points:,} sample points; at most "
+                                            f"{MAX_LOOP_POINTS:,} are used: fewer or smaller loops")
+    loops = loop_family(shape, (bx, by), sizes, step, asp)
     interp = _interpolator(field)
     gammas = []
     for i, lp in enumerate(loops, start=1):

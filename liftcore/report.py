@@ -9,7 +9,6 @@ overlaid key chart) are shared with the Compare options page.
 
 from __future__ import annotations
 
-import csv
 import datetime as _dt
 import html
 import io
@@ -23,6 +22,7 @@ import plotly.graph_objects as go
 
 import liftcore
 from liftcore import units
+from liftcore.files import SafeWriter, csv_text
 from liftcore.figures import LEGEND_ROW_PX, PALETTE, legend_entries, legend_rows, set_title
 from liftcore.inputs import Field
 from liftcore.scenario import Comparison, Scenario
@@ -566,7 +566,7 @@ def comparison_report(runs: list[Run], title: str = "", note: str = "", unit_sys
 # ----------------------------------------------------------------------------- CSV
 def _csv_writer():
     buf = io.StringIO()
-    return buf, csv.writer(buf, lineterminator="\n")
+    return buf, SafeWriter(buf)
 
 
 def _sig(x, digits: int = 12) -> float:
@@ -611,7 +611,7 @@ def scenario_csv(s: Scenario, result: StudyResult, unit_system: str | None = Non
     out = [buf.getvalue()]
     for name, df in result.tables.items():
         out.append(f"\ntable,{_csv_cell(name)}\n")
-        out.append(df.to_csv(index=False, lineterminator="\n"))
+        out.append(csv_text(df))
     return "".join(out)
 
 

@@ -161,14 +161,9 @@ def parse_document(data: str | bytes, source: str = "scenario") -> Scenario | Co
 def load_document(path: str | Path) -> Scenario | Comparison:
     """Read a scenario or comparison file; oversized files are refused before they are read."""
     p = Path(path)
-    size = p.stat().st_size
-    if size > MAX_SCENARIO_BYTES:
-        raise InputError("file", f"{p.name} is {size} bytes; scenario files must be at most "
-                                 f"{MAX_SCENARIO_BYTES} bytes")
-    if not p.is_file():
-        raise InputError("file", f"{p} is not a regular file")
-    with p.open("rb") as fh:  # read at most one byte more than allowed, whatever stat said
-        data = fh.read(MAX_SCENARIO_BYTES + 1)
+    from liftcore.files import read_bytes  # regular files only, the cap applied while reading
+
+    data = read_bytes(p, "scenario file", MAX_SCENARIO_BYTES)
     return parse_document(data, p.name)
 
 

@@ -35,6 +35,7 @@ from __future__ import annotations
 
 import io
 import math
+import os
 import re
 from dataclasses import dataclass, field, replace
 from pathlib import Path
@@ -45,6 +46,7 @@ import pandas as pd
 
 from liftcore.constants import CO2_FACTOR_T_PER_T, HOURS_PER_YEAR, KNOT_M_S, SECONDS_PER_HOUR
 from liftcore.errors import InputError, check_choice, check_number
+from liftcore.files import open_regular
 from liftcore import rotor, windstats
 from liftcore.validity import ModelWarning
 
@@ -487,8 +489,8 @@ def estimate_rows(source) -> int:
     if isinstance(source, pd.DataFrame):
         return len(source)
     p = Path(source)
-    size = p.stat().st_size
-    with open(p, "rb") as fh:
+    with open_regular(p, p.name) as fh:
+        size = os.fstat(fh.fileno()).st_size
         head = fh.read(65536)
     lines = [ln for ln in head.splitlines() if ln.strip() and not ln.lstrip().startswith(b"#")]
     if len(lines) < 2:
@@ -499,8 +501,8 @@ def estimate_rows(source) -> int:
 
 def _file_blocks(path: Path, block_bytes: int) -> tuple[list[str], list[tuple[int, int]]]:
     """(header columns, [(start, end) byte ranges of whole lines]) of a CSV series file."""
-    size = path.stat().st_size
-    with open(path, "rb") as fh:
+    with open_regular(path, path.name) as fh:
+        size = os.fstat(fh.fileno()).st_size
         while True:
             line = fh.readline()
             if not line:

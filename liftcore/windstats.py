@@ -47,6 +47,7 @@ import pandas as pd
 from scipy import special
 
 from liftcore.errors import InputError, check_number
+from liftcore.files import open_regular, read_bytes
 
 #: Columns of a joint wind table, in order.
 TABLE_COLUMNS = ("true_wind_angle_deg", "true_wind_speed_m_s", "probability")
@@ -159,6 +160,8 @@ def read_csv_frame(source, name: str | None = None, **kw) -> pd.DataFrame:
     if isinstance(source, pd.DataFrame):
         return source.copy()
     try:
+        if isinstance(source, (str, Path)):
+            source = read_bytes(source, label)  # regular files only, at most MAX_DATA_BYTES
         if isinstance(source, (bytes, bytearray)):
             source = io.BytesIO(source)
         return pd.read_csv(source, comment="#", skipinitialspace=True, **kw)
@@ -529,12 +532,8 @@ def iter_series(source, name: str | None = None, chunk_rows: int = DEFAULT_CHUNK
                 progress(min(1.0, (start + len(part)) / n), f"Reading {label}")
         return
     path = Path(source)
-    if not path.exists():
-        raise InputError("file", f"{label}: file not found")
-    if path.is_dir():
-        raise InputError("file", f"{label}: is a folder, not a CSV file")
-    size = max(path.stat().st_size, 1)
-    with open(path, "rb") as fh:
+    with open_regular(path, label) as fh:  # a regular file (never a pipe or a device), any length
+        size = max(os.fstat(fh.fileno()).st_size, 1)
         try:
             reader = pd.read_csv(fh, comment="#", skipinitialspace=True, chunksize=chunk_rows,
                                  usecols=lambda c: str(c).strip() in SERIES_COLUMNS + SERIES_OPTIONAL,

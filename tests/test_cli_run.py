@@ -131,13 +131,13 @@ def test_missing_file_and_oversized_file(tmp_path, capsys):
     with big.open("wb") as fh:
         fh.truncate(50_000_000)
     assert main(["run", str(big)]) == 2
-    assert "big.toml is 50000000 bytes; scenario files must be at most 1000000 bytes" in capsys.readouterr().err
+    assert "scenario file big.toml is 50,000,000 bytes; at most 1,000,000 are read" in capsys.readouterr().err
 
 
 def test_report_never_overwrites_the_scenario(tmp_path, capsys):
     p = write(tmp_path, DEMO)
     assert main(["run", str(p), "--report", str(p)]) == 2
-    assert "would overwrite the scenario file itself" in capsys.readouterr().err
+    assert "is the input file SCENARIO itself; choose another name" in capsys.readouterr().err
     assert p.read_text() == DEMO
 
 

@@ -92,7 +92,7 @@ HEAD = "true_wind_angle_deg,true_wind_speed_m_s,probability\n"
 
 
 @pytest.mark.parametrize("body, message", [
-    (None, "liftcore: missing.csv: file not found"),
+    (None, "liftcore: cannot read missing.csv: file not found"),
     ("angle,speed,probability\n0,5,1\n",
      "liftcore: trade.csv: missing columns 'true_wind_angle_deg', 'true_wind_speed_m_s'; a joint wind "
      "table needs columns true_wind_angle_deg, true_wind_speed_m_s, probability (found angle, speed, probability)"),

@@ -165,7 +165,7 @@ def test_oversized_file_is_refused_without_reading_it(tmp_path, monkeypatch):
         raise AssertionError("the file was opened")
     monkeypatch.setattr(Path, "open", no_reading)
     monkeypatch.setattr(Path, "read_bytes", no_reading)
-    with pytest.raises(InputError, match=r"huge.toml is 3221225472 bytes; scenario files must be at most 1000000 bytes"):
+    with pytest.raises(InputError, match=r"scenario file huge.toml is 3,221,225,472 bytes; at most 1,000,000 are read"):
         sc.load_document(big)
 
 
@@ -175,7 +175,7 @@ def test_oversized_content_is_refused():
 
 
 def test_a_folder_is_not_a_scenario(tmp_path):
-    with pytest.raises(InputError, match="is not a regular file"):
+    with pytest.raises(InputError, match="it is a folder; give a regular file"):
         sc.load_document(tmp_path)
 
 

@@ -89,7 +89,7 @@ def test_bad_tables_fail_with_one_line_naming_file_row_and_column(tmp_path, body
 
 
 def test_missing_file_is_named():
-    with pytest.raises(InputError, match=r"^nowhere\.csv: file not found$"):
+    with pytest.raises(InputError, match=r"^cannot read nowhere\.csv: file not found$"):
         ws.read_wind_table("nowhere.csv")
 
 

@@ -7,6 +7,7 @@ import streamlit as st
 from liftcore import fieldcirc
 from liftcore.errors import InputError
 from liftcore.studies import study as study_module
+from liftcore.files import csv_text
 from views import inputs, results, tools
 
 study = study_module("field")
@@ -77,7 +78,7 @@ with right:
 with st.expander("Circulation of each loop"):
     loops = results.study_tables(study, result)["loops"]
     st.dataframe(loops, hide_index=True, width="stretch")
-    st.download_button("Download as CSV", loops.to_csv(index=False),
+    st.download_button("Download as CSV", csv_text(loops),
                        file_name="circulation_per_loop.csv", mime="text/csv")
 with st.expander("File format"):
     st.markdown(FORMAT_HELP)

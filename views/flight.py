@@ -15,6 +15,7 @@ from liftcore.balls import BALLS, LAUNCH_KEYS, MODELS, ball_table, typical_launc
 from liftcore.errors import InputError
 from liftcore.studies import flight as study
 from liftcore.studies import format_number
+from liftcore.files import csv_text
 from views.inputs import (input_widget, render_inputs, set_values, state_key, unit_system,
                           widget_changed)
 from views.results import (bold_html, cached, general_warnings, open_tab_only, number_text, run_for_page, show_figure, stop_for,
@@ -160,7 +161,7 @@ def _flight_tab(result, values):
         overlaid.clear()
         st.rerun()
     path = study_tables(study, result)[f"path: {flights[0].label}"]
-    c3.download_button("Path of this flight (CSV)", path.to_csv(index=False), "flight_path.csv",
+    c3.download_button("Path of this flight (CSV)", csv_text(path), "flight_path.csv",
                        "text/csv", key="flight_download",
                        help="Time, position, speed, spin and coefficients along the flight, in the "
                             "units chosen (the unit is in each column name)")
@@ -287,7 +288,7 @@ def _fit_tab(values):
     else:
         up = st.file_uploader("Tracked positions (CSV)", type=["csv", "txt"], key="flight_tracks_file")
         st.download_button("Example file in this format (the invented demo tracks)",
-                           _cached("demo tracks", {}, lambda progress: bf.demo_tracks()).to_csv(index=False),
+                           csv_text(_cached("demo tracks", {}, lambda progress: bf.demo_tracks())),
                            "tracks_example_invented.csv", "text/csv", key="flight_tracks_template")
         if up is None:
             st.info("Upload a CSV file in the format above, or choose the invented demo tracks.")

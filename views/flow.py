@@ -3,6 +3,7 @@
 import streamlit as st
 
 from liftcore.studies import study as study_module
+from liftcore.files import csv_text
 from views import inputs, results, tools
 
 study = study_module("flow")
@@ -47,7 +48,7 @@ def _lift_tab():
 def _table_tab():
     surface = results.study_tables(study, result)["surface"]
     st.dataframe(surface, hide_index=True, width="stretch")
-    st.download_button("Download as CSV", surface.to_csv(index=False),
+    st.download_button("Download as CSV", csv_text(surface),
                        file_name="spinning_cylinder_surface.csv", mime="text/csv")
 
 

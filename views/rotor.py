@@ -9,6 +9,7 @@ from liftcore import coefficients as coef
 from liftcore import units
 from liftcore.studies import format_number
 from liftcore.studies import rotor as study
+from liftcore.files import csv_text
 from views import inputs, results, tools
 
 KIND = study.KIND
@@ -166,7 +167,7 @@ def _tables_tab():
             st.table(df.set_index(df.columns[0]))
         else:
             st.dataframe(df, hide_index=True, width="stretch", height=min(240, 40 + 35 * len(df)))
-        st.download_button(f"Download {label.lower()} as CSV", df.to_csv(index=False),
+        st.download_button(f"Download {label.lower()} as CSV", csv_text(df),
                            file_name=f"rotor_{name}.csv", mime="text/csv", key=f"rotor:dl:{name}")
 
 

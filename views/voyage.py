@@ -8,6 +8,7 @@ import streamlit as st
 from liftcore import windstats
 from liftcore.errors import InputError
 from liftcore.studies import voyage as study
+from liftcore.files import csv_text
 from views.inputs import render_inputs, unit_system
 from views.results import (general_warnings, open_tab_only, run_for_page, show_figure,
                            show_headlines, stop_for,
@@ -154,7 +155,7 @@ def _tables_tab():
     for name, table in study_tables(study, result).items():
         st.markdown(f"**{name.replace('_', ' ').capitalize()}**")
         st.dataframe(table, hide_index=True, height=min(300, 40 + 35 * len(table)))
-        st.download_button(f"Download {name}.csv", table.to_csv(index=False).encode(),
+        st.download_button(f"Download {name}.csv", csv_text(table).encode(),
                            file_name=f"voyage_{name}.csv", mime="text/csv", key=f"voyage:csv:{name}")
 
 

@@ -107,9 +107,12 @@ def main(argv=None) -> int:
         progress.close()
         print(f"liftcore: {exc}", file=sys.stderr)
         return 2
-    except (FileNotFoundError, IsADirectoryError, PermissionError) as exc:
+    except OSError as exc:  # missing, a folder, no permission, name too long, a symlink loop...
         progress.close()
-        print(f"liftcore: cannot read {exc.filename}: {exc.strerror}", file=sys.stderr)
+        name = str(exc.filename) if exc.filename is not None else "a file"
+        if len(name) > 80:
+            name = name[:38] + "…" + name[-38:]
+        print(f"liftcore: cannot read {name}: {exc.strerror or exc}", file=sys.stderr)
         return 2
     except KeyboardInterrupt:
         progress.close()

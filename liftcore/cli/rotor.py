@@ -14,6 +14,7 @@ from liftcore.cli import add_json_flag
 from liftcore.cli.common import add_air_options, density_from_args, text_table, validate_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
+from liftcore.files import read_text
 from liftcore.studies import rotor as study
 
 #: Largest coefficient CSV file read from the command line. [bytes]
@@ -127,12 +128,8 @@ def values_from_args(args) -> tuple[dict, object]:
         if path.suffix.lower() != ".csv" and not path.exists():
             raise InputError("--coefficients", f"--coefficients must be one of "
                                                f"{', '.join(coef.builtin_names())} or a .csv file (got {name!r})")
-        size = path.stat().st_size
-        if size > MAX_CSV_BYTES:
-            raise InputError("--coefficients", f"--coefficients file {path.name} is {size} bytes; at most "
-                                               f"{MAX_CSV_BYTES} are read")
         values["coefficient_set"] = "user"
-        table = path.read_text(encoding="utf-8", errors="replace")
+        table = read_text(path, "--coefficients", MAX_CSV_BYTES)
         coef.user_coefficient_set(table, source=f"--coefficients file {path.name}")  # check, naming the file
     return values, table
 

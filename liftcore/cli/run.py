@@ -9,13 +9,13 @@ option under ``options``). Progress of long work goes to stderr.
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 from liftcore import units
 from liftcore.cli import add_json_flag
 from liftcore.cli.common import text_table
 from liftcore.errors import InputError
+from liftcore.files import check_outputs, write_atomic
 from liftcore.report import (comparison_csv, comparison_report, difference_text, group_by_kind,
                              run_comparison, run_scenario, scenario_csv, scenario_report)
 from liftcore.scenario import MAX_SCENARIO_BYTES, Comparison, load_document
@@ -37,33 +37,24 @@ def add_parser(sub):
     return p
 
 
-def _check_target(path: str | None, option: str, scenario: Path) -> Path | None:
+def _check_target(path: str | None, option: str) -> Path | None:
     if path is None:
         return None
     p = Path(path)
-    if p.exists() and p.resolve() == scenario.resolve():
-        raise InputError(option, f"--{option} {path} would overwrite the scenario file itself; choose another name")
     if p.is_dir():
         raise InputError(option, f"--{option} {path} is a folder; give a file name")
-    if not p.parent.exists():
+    if not p.parent.is_dir():
         raise InputError(option, f"--{option} {path}: folder {p.parent} does not exist")
     return p
 
 
-def _write(p: Path, text: str, option: str) -> None:
-    try:
-        p.write_text(text, encoding="utf-8")
-    except OSError as exc:
-        raise InputError(option, f"--{option}: cannot write {p}: {exc.strerror or exc}") from None
-
-
 def execute(args, progress):
     path = Path(args.scenario)
-    report_path = _check_target(args.report, "report", path)
-    csv_path = _check_target(args.csv, "csv", path)
-    if not path.exists():
-        raise FileNotFoundError(2, os.strerror(2), str(path))
-    doc = load_document(path)
+    report_path = _check_target(args.report, "report")
+    csv_path = _check_target(args.csv, "csv")
+    # refused before anything runs: an output onto the scenario, or two outputs onto one file
+    check_outputs({"--report": report_path, "--csv": csv_path}, {"SCENARIO": path})
+    doc = load_document(path)  # a regular file only, at most MAX_SCENARIO_BYTES
     system = args.units or doc.unit_system
     if isinstance(doc, Comparison):
         data, text, runs = _comparison(doc, system, progress)
@@ -89,10 +80,10 @@ def execute(args, progress):
         text = (f"(read a schema_version {doc.migrated_from} file; saving it again from the dashboard "
                 "writes the current version)\n") + text
     if report_path:
-        _write(report_path, html, "report")
+        write_atomic(report_path, html, "--report")
         text += f"\n\nReport written to {report_path}"
     if csv_path:
-        _write(csv_path, csv_text, "csv")
+        write_atomic(csv_path, csv_text, "--csv")
         text += f"\nNumbers written to {csv_path}"
     return data, text
 

@@ -21,6 +21,7 @@ from liftcore.cli import add_json_flag
 from liftcore.cli.common import add_air_options, air_from_args, require_one, text_table, validate_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError, check_number
+from liftcore.files import read_text
 from liftcore.studies import voyage as study
 from liftcore.voyage import DASK_AUTO_ROWS, FUELS
 
@@ -176,13 +177,7 @@ def _coefficients(name: str) -> dict:
     if path.suffix.lower() != ".csv" and not path.exists():
         raise InputError("--coefficients", f"--coefficients must be one of "
                                            f"{', '.join(coef.builtin_names())} or a .csv file (got {name!r})")
-    if not path.is_file():
-        raise InputError("--coefficients", f"--coefficients file {path.name}: file not found")
-    size = path.stat().st_size
-    if size > MAX_CSV_BYTES:
-        raise InputError("--coefficients", f"--coefficients file {path.name} is {size} bytes; at most "
-                                           f"{MAX_CSV_BYTES} are read")
-    table = path.read_text(encoding="utf-8", errors="replace")
+    table = read_text(path, "--coefficients", MAX_CSV_BYTES)
     coef.user_coefficient_set(table, source=f"--coefficients file {path.name}")  # check, naming the file
     return {"coefficient_set": "user", "user_coefficients_csv": table}
 
