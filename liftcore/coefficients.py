@@ -272,6 +272,11 @@ def ideal_potential_flow() -> CoefficientSet:
         notes="Two-dimensional and inviscid; spin power comes from the skin-friction model.")
 
 
+#: Largest magnitude accepted in a coefficient table: several times the highest published rotor
+#: values (CL about 12, CD about 5 at spin ratio 10) and spin ratios far past any data.
+TABLE_LIMITS = {"SR": 50.0, "CL": 100.0, "CD": 100.0, "CP": 1000.0}
+
+
 def _read_table(text: str, source: str) -> dict:
     """Parse and validate a coefficient table (CSV text with SR, CL, CD and optional CP)."""
     import pandas as pd
@@ -324,6 +329,11 @@ def _table_from_frame(df, source: str) -> dict:
             row = int(np.flatnonzero(out[name] < 0)[0])
             raise InputError("coefficients", f"{source}: {name} must be >= 0 (got {out[name][row]:g} "
                                              f"in data row {row + 1})")
+    for name, top in TABLE_LIMITS.items():
+        if name in out and (np.abs(out[name]) > top).any():
+            row = int(np.flatnonzero(np.abs(out[name]) > top)[0])
+            raise InputError("coefficients", f"{source}: {name} must lie within ±{top:g} (got "
+                                             f"{out[name][row]:.6g} in data row {row + 1})")
     return out
 
 

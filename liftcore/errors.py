@@ -32,10 +32,28 @@ class InputError(ValueError):
         return self.message.replace("\n", " ")
 
 
+#: Longest piece of a user's value echoed in a message (the rest is elided). [characters]
+MAX_ECHO_CHARS = 60
+
+
+def echo(value) -> str:
+    """A user's value as a message quotes it (see :func:`_fmt`): never whole when long, never
+    with raw control characters."""
+    return _fmt(value)
+
+
 def _fmt(value) -> str:
+    """A value as a message shows it: numbers plainly (numpy's too), text quoted with control
+    characters escaped and cut to :data:`MAX_ECHO_CHARS`."""
     if isinstance(value, (float, np.floating)):
         return f"{float(value):.6g}"
-    return repr(value) if isinstance(value, str) else str(value)
+    if isinstance(value, np.integer):
+        return str(int(value))
+    if isinstance(value, str):
+        text = repr(value[:MAX_ECHO_CHARS])  # repr escapes control characters and NUL
+        return text + (f" … ({len(value):,} characters)" if len(value) > MAX_ECHO_CHARS else "")
+    text = str(value)
+    return text if len(text) <= MAX_ECHO_CHARS else text[:MAX_ECHO_CHARS] + " …"
 
 
 def _unit(unit: str) -> str:

@@ -12,7 +12,7 @@ from dataclasses import dataclass, field as dc_field, replace
 from typing import Any, Callable, Iterable
 
 from liftcore import units
-from liftcore.errors import InputError, check_choice, check_number
+from liftcore.errors import InputError, check_choice, check_number, echo
 
 
 @dataclass(frozen=True)
@@ -95,9 +95,12 @@ class Field:
                 shown = units.to_display(value, self.quantity, system) if _is_num(value) else value
             except OverflowError:  # an integer too large for a float: check_number says so
                 shown = value
-            lo = None if self.low is None else units.to_display(self.low, self.quantity, system)
-            hi = None if self.high is None else units.to_display(self.high, self.quantity, system)
-            x = check_number(self.label, shown, self.unit(system), low=_round(lo), high=_round(hi),
+            # limits as a person reads them (10 significant digits), compared in the unit typed
+            lo = None if self.low is None else _round(units.to_display(self.low, self.quantity, system))
+            hi = None if self.high is None else _round(units.to_display(self.high, self.quantity, system))
+            shown = _snap(shown, lo, not self.low_open, below=True)
+            shown = _snap(shown, hi, not self.high_open, below=False)
+            x = check_number(self.label, shown, self.unit(system), low=lo, high=hi,
                              low_inclusive=not self.low_open, high_inclusive=not self.high_open)
             x = units.from_display(x, self.quantity, system)
             if self.kind == "int":
@@ -124,6 +127,23 @@ class Field:
 
 def _is_num(v) -> bool:
     return isinstance(v, (int, float)) and not isinstance(v, bool)
+
+
+#: A value this close to an inclusive limit (relative to the limit) is the limit: a limit typed
+#: as the page shows it (rounded to units.DISPLAY_TOLERANCE), or carried through a unit
+#: conversion, is accepted.
+LIMIT_ALLOWANCE = units.DISPLAY_TOLERANCE
+
+
+def _snap(value, limit, inclusive: bool, below: bool):
+    """``limit`` when ``value`` lies just outside it (below a lower limit, above an upper one;
+    see :data:`LIMIT_ALLOWANCE`), else ``value`` unchanged."""
+    if not inclusive or limit is None or not _is_num(value) or value != value:
+        return value
+    outside = value < limit if below else value > limit
+    if outside and abs(value - limit) <= LIMIT_ALLOWANCE * abs(limit):
+        return limit
+    return value
 
 
 def _round(x):
@@ -169,7 +189,7 @@ class InputSpec:
         """
         unknown = [k for k in values if k not in self.keys]
         if unknown:
-            raise InputError(unknown[0], f"unknown input {unknown[0]!r} for a {self.kind} study; "
+            raise InputError(str(unknown[0])[:60], f"unknown input {echo(str(unknown[0]))} for a {self.kind} study; "
                                          f"valid: {', '.join(self.keys)}")
         out = {}
         for f in self.fields:

@@ -53,7 +53,7 @@ from pathlib import Path
 import tomli_w
 
 from liftcore import units
-from liftcore.errors import InputError, check_number
+from liftcore.errors import MAX_ECHO_CHARS, InputError, check_number, echo
 from liftcore.studies import STUDY_MODULES, study
 
 #: The schema version this liftcore writes.
@@ -244,7 +244,8 @@ def _suggest(key: str, valid) -> str:
 
 
 def _unknown(key, valid, where: str, source: str) -> InputError:
-    return InputError(str(key), f"{source}: unknown key {key!r} {where}{_suggest(key, valid)}; "
+    return InputError(str(key)[:MAX_ECHO_CHARS], f"{source}: unknown key {echo(str(key))} {where}"
+                                f"{_suggest(key, valid) if len(str(key)) <= MAX_ECHO_CHARS else ''}; "
                                 f"valid: {', '.join(valid)}")
 
 
@@ -314,7 +315,7 @@ def document_from_dict(doc: dict, source: str = "scenario") -> Scenario | Compar
         if key not in _TOP_KEYS:
             raise _unknown(key, _TOP_KEYS, "at the top level", source)
     kind = doc.get("kind")
-    if kind not in STUDY_MODULES:
+    if not isinstance(kind, str) or kind not in STUDY_MODULES:
         raise InputError("kind", f"{source}: kind must be one of {', '.join(STUDY_MODULES)} (got {kind!r:.60})")
     title = _text(doc, "title", MAX_TITLE_CHARS, source)
     note = _text(doc, "note", MAX_NOTE_CHARS, source)

@@ -64,6 +64,8 @@ PROBABILITY_TOLERANCE = 1e-6
 MAX_WIND_SPEED_M_S = 80.0
 #: Highest ship speed accepted in a series [kn].
 MAX_SHIP_SPEED_KN = 40.0
+#: Years an hourly series may hold (calendar arithmetic in nanoseconds holds 1677 to 2262).
+SERIES_YEARS = (1900, 2200)
 #: Rows per block when a series is streamed from a file.
 DEFAULT_CHUNK_ROWS = 50_000
 #: Weibull discretisation: speed bin width [m/s] and the start of the open top bin [m/s].
@@ -478,6 +480,12 @@ def check_series_frame(df: pd.DataFrame, row_offset: int = 0) -> SeriesBlock:
         i = int(np.flatnonzero(bad)[0])
         raise CellError(i, "time", "time must be an ISO 8601 date and time such as "
                                    f"2031-01-01T00:00 (got {'empty' if _is_blank(times.iloc[i]) else repr(str(times.iloc[i]))})")
+    year = parsed.dt.year.to_numpy(dtype=np.int64)
+    out = (year < SERIES_YEARS[0]) | (year > SERIES_YEARS[1])
+    if out.any():
+        i = int(np.flatnonzero(out)[0])
+        raise CellError(i, "time", f"time must lie in the years {SERIES_YEARS[0]} to {SERIES_YEARS[1]} "
+                                   f"(got {str(times.iloc[i])[:40]!r})")
     month = parsed.dt.month.to_numpy(dtype=np.int64)
     vs_kn = numeric_column(df, "ship_speed_kn", "kn", low=0.0, high=MAX_SHIP_SPEED_KN)
     heading = numeric_column(df, "ship_heading_deg", "deg", low=0.0, high=360.0)
@@ -540,6 +548,8 @@ def iter_series(source, name: str | None = None, chunk_rows: int = DEFAULT_CHUNK
                                  dtype={"leg": "string"})
         except (pd.errors.EmptyDataError, UnicodeDecodeError):
             raise InputError("file", f"{label}: the file is empty or not text") from None
+        except pd.errors.ParserError as exc:
+            raise InputError("file", f"{label}: not a readable CSV table ({_one_line(exc)})") from None
         offset = 0
         try:
             for chunk in reader:

@@ -14,6 +14,7 @@ from __future__ import annotations
 import argparse
 import importlib
 import json
+import re
 import math
 import os
 import sys
@@ -94,11 +95,27 @@ def _clean_json(obj):
     return obj
 
 
+_NEGATIVE_NUMBER = re.compile(r"^-(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$|^-(inf|nan)$", re.IGNORECASE)
+
+
+def join_negative_values(argv: list[str]) -> list[str]:
+    """``--opt -1e-05`` as ``--opt=-1e-05``: argparse takes a negative number in exponent
+    notation for an option, so the value would be refused before liftcore sees it."""
+    out = []
+    for a in argv:
+        if (out and _NEGATIVE_NUMBER.match(a) and out[-1].startswith("--") and "=" not in out[-1]
+                and not any(c.isdigit() for c in out[-1][2:3])):
+            out[-1] = f"{out[-1]}={a}"
+        else:
+            out.append(a)
+    return out
+
+
 def main(argv=None) -> int:
     progress = Progress()
     try:
         parser = build_parser()
-        args = parser.parse_args(argv)
+        args = parser.parse_args(join_negative_values(list(sys.argv[1:] if argv is None else argv)))
         data, text = args._execute(args, progress)
     except UsageError as exc:
         print(str(exc).replace("\n", " "), file=sys.stderr)

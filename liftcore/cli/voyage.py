@@ -124,8 +124,11 @@ def add_parser(sub):
 def values_from_args(args) -> tuple[dict, str]:
     """(study input values, wind file path) from the parsed options; raises InputError."""
     require_one("--wind-table, --weibull, --wind-series", args.wind_table, args.weibull, args.wind_series)
-    kind, path = (("table", args.wind_table) if args.wind_table else
-                  ("weibull", args.weibull) if args.weibull else ("series", args.wind_series))
+    kind, path = (("table", args.wind_table) if args.wind_table is not None else
+                  ("weibull", args.weibull) if args.weibull is not None else ("series", args.wind_series))
+    if not path.strip():
+        option = {"table": "--wind-table", "weibull": "--weibull", "series": "--wind-series"}[kind]
+        raise InputError(option, f"{option} needs a file name (got an empty one)")
     v = {"diameter_m": args.diameter_m, "height_m": args.height_m, "rotor_count": args.rotors,
          "fuel": args.fuel, "wind_kind": kind, "sweep": bool(args.sweep),
          "published_spread": not args.no_spread}

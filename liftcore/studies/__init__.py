@@ -223,8 +223,8 @@ class StudyResult:
 
 def study(kind: str):
     """The study module for ``kind``; unknown kinds list the valid ones."""
-    if kind not in STUDY_MODULES:
-        raise ValueError(f"unknown study kind {kind!r}; valid: {', '.join(STUDY_MODULES)}")
+    if not isinstance(kind, str) or kind not in STUDY_MODULES:
+        raise ValueError(f"unknown study kind {kind!r:.60}; valid: {', '.join(STUDY_MODULES)}")
     return importlib.import_module(f"liftcore.studies.{STUDY_MODULES[kind]}")
 
 

@@ -1,0 +1,123 @@
+"""Hostile and edge-case values: a clear message and exit 2 (or an error box), never a traceback;
+limits accepted as they are shown. Each case failed on the code before the fix."""
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from liftcore import units, windstats
+from liftcore.cli import main
+from liftcore.errors import InputError, check_number
+from liftcore.studies import STUDY_MODULES, run_study, study
+
+ROOT = Path(__file__).resolve().parents[1]
+ROTOR = ["rotor", "--diameter-m", "5", "--height-m", "30", "--ship-speed-kn", "12",
+         "--true-wind-speed-kn", "20", "--true-wind-angle-deg", "90"]
+VOYAGE = ["voyage", "--diameter-m", "5", "--height-m", "30", "--rotors", "2", "--fuel", "hfo",
+          "--ship-speed-kn", "12", "--hours-at-sea", "6000"]
+SERIES_HEAD = "time,ship_speed_kn,ship_heading_deg,true_wind_speed_m_s,true_wind_direction_deg\n"
+
+
+def refused(capsys, args, text):
+    assert main(args) == 2
+    err = capsys.readouterr().err
+    assert text in err and "Traceback" not in err, err
+    return err
+
+
+def test_a_coefficient_table_with_1e308_is_refused_naming_row_and_column(tmp_path, capsys):
+    table = tmp_path / "big.csv"
+    table.write_text("SR,CL,CD\n0,0,0.5\n1,1e308,1\n2,3,1\n")
+    refused(capsys, ROTOR + ["--coefficients", str(table)], "CL must lie within ±100 (got 1e+308 in data row 2)")
+    with pytest.raises(InputError, match="CL must lie within"):
+        run_study("rotor", {"coefficient_set": "user", "user_coefficients_csv": table.read_text()})
+
+
+def test_an_unused_bad_user_table_does_not_stop_the_chosen_set():
+    # a share link with such a table but another set chosen: the page still answers
+    r = run_study("rotor", {"user_coefficients_csv": "SR,CL,CD\n0,0,0.5\n1,1e308,1\n2,3,1\n"})
+    assert np.isfinite(r.json["net_power_kw"])
+
+
+def test_a_scenario_whose_kind_is_a_list(tmp_path, capsys):
+    f = tmp_path / "k.toml"
+    f.write_text('schema_version = 2\nkind = ["rotor"]\n[inputs]\n')
+    refused(capsys, ["run", str(f)], "kind must be one of")
+
+
+@pytest.mark.parametrize("year", ["0001", "9999"])
+def test_series_years_outside_the_calendar_range(tmp_path, year):
+    f = tmp_path / "s.csv"
+    f.write_text(SERIES_HEAD + f"{year}-01-01T00:00,12,0,8,90\n2030-01-01T00:00,12,0,8,90\n")
+    with pytest.raises(InputError, match="years 1900 to 2200"):
+        list(windstats.iter_series(f))
+
+
+def test_series_with_an_unclosed_quote(tmp_path, capsys):
+    f = tmp_path / "q.csv"
+    f.write_text(SERIES_HEAD + '"2030-01-01T00:00,12,0,8,90\n2030-01-01T01:00,12,0,8,90\n')
+    refused(capsys, ["voyage", "--diameter-m", "5", "--height-m", "30", "--rotors", "2", "--fuel", "hfo",
+                     "--wind-series", str(f), "--in-process"], "not a readable CSV table")
+
+
+def test_a_density_of_the_smallest_float_is_refused(capsys):
+    refused(capsys, ["flow", "--radius-m", "0.5", "--speed-m-s", "8", "--spin-ratio", "1.5",
+                     "--density-kg-m3", "5e-324"], "density-kg-m3 must be between 0.01 and 2 kg/m3")
+
+
+def test_a_negative_value_in_exponent_notation_reaches_liftcore(capsys):
+    args = ["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "-1e-05",
+            "--spin-rpm", "2700", "--json"]
+    assert main(args) == 0
+    assert json.loads(capsys.readouterr().out)["carry_m"] > 0
+
+
+def test_the_upper_limit_itself_is_accepted_and_just_above_it_refused(capsys):
+    args = ROTOR.copy()
+    args[args.index("--ship-speed-kn") + 1] = "30"
+    assert main(args + ["--json"]) == 0
+    capsys.readouterr()
+    args[args.index("--ship-speed-kn") + 1] = "30.1"
+    refused(capsys, args, "must be between 0 and 30 kn (got 30.1 kn)")
+
+
+@pytest.mark.parametrize("system", units.UNIT_SYSTEMS)
+def test_every_limit_typed_as_the_page_shows_it_is_accepted(system):
+    tried = 0
+    for kind in STUDY_MODULES:
+        for f in study(kind).INPUTS.fields:
+            if f.kind not in ("number", "int"):
+                continue
+            for limit, is_open in ((f.low, f.low_open), (f.high, f.high_open)):
+                if limit is None or is_open:
+                    continue
+                shown = units.tidy(units.to_display(limit, f.quantity, system))
+                f.validate(units.from_display(shown, f.quantity, system), system)  # raises if refused
+                tried += 1
+    assert tried > 100
+
+
+def test_an_empty_wind_table_name_is_refused_not_replaced_by_the_demo(capsys):
+    refused(capsys, VOYAGE + ["--wind-table", ""], "--wind-table needs a file name")
+
+
+def test_messages_show_numpy_values_plainly_and_cut_long_text():
+    with pytest.raises(InputError) as e:
+        check_number("x", np.float64("nan"), "m", low=0, high=1)
+    assert "got nan" in str(e.value) and "np.float64" not in str(e.value)
+    with pytest.raises(InputError) as e:
+        check_number("x", "k" * 100_000 + "\x00\x1b[31m", "m")
+    assert len(str(e.value)) < 200 and "100,006 characters" in str(e.value)
+    assert "\x00" not in str(e.value) and "\x1b" not in str(e.value)
+
+
+def test_a_huge_key_in_a_scenario_is_not_echoed_whole(tmp_path):
+    f = tmp_path / "k.toml"
+    f.write_text('schema_version = 2\nkind = "rotor"\n[inputs]\n' + "k" * 100_000 + " = 1\n")
+    out = subprocess.run([sys.executable, "-m", "liftcore", "run", str(f)], capture_output=True,
+                         text=True, timeout=60, cwd=ROOT)
+    assert out.returncode == 2 and len(out.stderr) < 2000, out.stderr[:300]  # the valid keys, not the key
