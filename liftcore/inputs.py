@@ -138,8 +138,8 @@ LIMIT_ALLOWANCE = units.DISPLAY_TOLERANCE
 def _snap(value, limit, inclusive: bool, below: bool):
     """``limit`` when ``value`` lies just outside it (below a lower limit, above an upper one;
     see :data:`LIMIT_ALLOWANCE`), else ``value`` unchanged."""
-    if not inclusive or limit is None or not _is_num(value) or value != value:
-        return value
+    if not inclusive or limit is None or not isinstance(value, float) or value != value:
+        return value  # integers are compared exactly (and may be too large for a float)
     outside = value < limit if below else value > limit
     if outside and abs(value - limit) <= LIMIT_ALLOWANCE * abs(limit):
         return limit
