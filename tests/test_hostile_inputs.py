@@ -121,3 +121,8 @@ def test_a_huge_key_in_a_scenario_is_not_echoed_whole(tmp_path):
     out = subprocess.run([sys.executable, "-m", "liftcore", "run", str(f)], capture_output=True,
                          text=True, timeout=60, cwd=ROOT)
     assert out.returncode == 2 and len(out.stderr) < 2000, out.stderr[:300]  # the valid keys, not the key
+
+
+def test_cd_without_the_constant_model_is_refused_not_ignored(capsys):
+    refused(capsys, ["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "11",
+                     "--spin-rpm", "2700", "--cd", "3"], "add --model constant")

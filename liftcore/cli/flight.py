@@ -8,7 +8,7 @@ from __future__ import annotations
 from liftcore.balls import BALL_KEYS, MODEL_KEYS
 from liftcore.cli import add_json_flag
 from liftcore.cli.common import add_air_options, density_from_args, text_table
-from liftcore.errors import check_choice, check_number
+from liftcore.errors import InputError, check_choice, check_number
 from liftcore.studies import run_study
 
 
@@ -85,6 +85,9 @@ def values_from_args(args) -> dict:
         check_number("mass-kg", args.mass_kg, "kg", low=0.0005, high=2.0)
         values["custom_diameter_m"] = args.diameter_m
         values["custom_mass_kg"] = args.mass_kg
+    if (args.cd is not None or args.cl is not None) and args.model != "constant":
+        raise InputError("--cd", "--cd and --cl set the constant model: add --model constant "
+                                 f"(got --model {args.model or 'the ball default'})")
     if args.cd is not None:
         values["constant_cd"] = check_number("cd", args.cd, "", low=0.0, high=3.0)
     if args.cl is not None:
