@@ -839,7 +839,7 @@ def summarise(t: Tally, ship: ShipEconomics, hours_at_sea_per_year: float | None
     fuel_cost = fuel / 1000.0 * ship.fuel_price_per_t
     carbon_cost = co2 / 1000.0 * ship.carbon_price_per_t_co2
     cost = fuel_cost + carbon_cost - ship.upkeep_per_year
-    shares = t.state / t.weight
+    shares = np.clip(t.state / t.weight, 0.0, 1.0)  # sums of weights can overshoot 1 by round-off
     warnings = list(voyage_warnings(t))
     if cost <= 0 and ship.installed_cost > 0:
         warnings.append(ModelWarning("no_payback", "the yearly saving does not exceed the upkeep: "

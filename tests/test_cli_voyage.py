@@ -127,7 +127,7 @@ def test_bad_tables_exit_2_with_one_line(capsys, tmp_path, body, message):
      "liftcore: --coefficients must be one of potential_flow, bordogna_2019, gerhardt_2022, "
      "prandtl_1926, tillig_ringsberg_2020 or a .csv file (got 'nothing')"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--temperature-c", "300"],
-     "liftcore: temperature-c must be between -73.15 and 76.85 degC (got 300 degC)"),
+     "liftcore: temperature-c must be between -40 and 50 degC (got 300 degC)"),
 ])
 def test_bad_options_exit_2_with_one_line(capsys, extra, message):
     code, _, err = run_cli(capsys, BASE + ["--wind-table", str(study.DEMO_FILES["table"])] + extra)

@@ -126,3 +126,42 @@ def test_a_huge_key_in_a_scenario_is_not_echoed_whole(tmp_path):
 def test_cd_without_the_constant_model_is_refused_not_ignored(capsys):
     refused(capsys, ["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "11",
                      "--spin-rpm", "2700", "--cd", "3"], "add --model constant")
+
+
+@pytest.mark.parametrize("air", [["--pressure-pa", "30000"], ["--temperature-c", "-80"]])
+def test_one_air_range_for_every_command(capsys, air):
+    texts = set()
+    for args in (["air"], ROTOR, ["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "11",
+                                  "--spin-rpm", "2700"], VOYAGE + ["--wind-table", "x.csv"]):
+        assert main(args + air) == 2
+        texts.add(capsys.readouterr().err.strip())
+    assert len(texts) == 1, texts  # the same message from every command
+
+
+def test_isa_at_11_km_is_accepted_by_every_air_command(capsys):
+    for args in (["air"], ROTOR, ["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "11",
+                                  "--spin-rpm", "2700"]):
+        assert main(args + ["--altitude-m", "11000", "--json"]) == 0, capsys.readouterr().err
+        capsys.readouterr()
+
+
+@pytest.mark.parametrize("command", [ROTOR, ["flight", "--ball", "golf", "--speed-m-s", "70",
+                                             "--elevation-deg", "11", "--spin-rpm", "2700"]])
+def test_density_with_an_altitude_is_refused_everywhere(capsys, command):
+    refused(capsys, command + ["--density-kg-m3", "1.2", "--altitude-m", "100"], "not both")
+
+
+def test_a_course_with_a_wind_table_is_refused_not_ignored(capsys):
+    from liftcore.studies import voyage as vstudy
+
+    refused(capsys, VOYAGE + ["--wind-table", str(vstudy.DEMO_FILES["table"]), "--course-deg", "nan"],
+            "apply to --weibull only")
+
+
+def test_shares_of_time_never_exceed_one(capsys):
+    from liftcore.studies import voyage as vstudy
+
+    assert main(VOYAGE + ["--wind-table", str(vstudy.DEMO_FILES["table"]), "--no-spread", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    for key in ("running_share", "stopped_share", "limited_share"):
+        assert 0.0 <= data[key] <= 1.0

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from liftcore.air import AirState, air_state
+from liftcore.air import AirState, air_inputs, air_state
 from liftcore.errors import InputError, check_number
 
 
@@ -18,16 +18,49 @@ def add_air_options(p, density: bool = True) -> None:
                        help="air density [kg/m3], overriding the air state (0 means vacuum where allowed)")
 
 
+#: The air fields every study shares: one range for the page, the files and every command.
+AIR_FIELDS = {f.key: f for f in air_inputs("Air")}
+
+
+#: Option name, option unit and the offset from the option's unit to the core unit.
+_AIR_OPTION_UNITS = {"relative_humidity_pct": ("%", 0.0), "temperature_k": ("degC", -273.15),
+                     "pressure_pa": ("Pa", 0.0), "altitude_m": ("m", 0.0)}
+
+
+def _air_field(key: str, option: str, value):
+    """``value`` (in the option's unit) checked against the shared air field's range, compared
+    in the option's unit; returned in the core unit."""
+    f = AIR_FIELDS[key]
+    unit, offset = _AIR_OPTION_UNITS[key]
+    x = check_number(option, value, unit, low=f.low + offset, high=f.high + offset)
+    return x - offset
+
+
+def air_values(args) -> dict:
+    """The study's air inputs from the shared air options: ISA at the altitude, or measured when
+    a temperature or pressure is given (checked as :func:`air_from_args` checks them)."""
+    air = air_from_args(args)
+    out = {"relative_humidity_pct": 100.0 * air.relative_humidity}
+    if args.altitude_m is not None:
+        out["altitude_m"] = args.altitude_m
+    if args.temperature_c is not None or args.pressure_pa is not None:
+        out.update(air_mode="measured", temperature_k=air.temperature_k, pressure_pa=air.pressure_pa)
+    else:
+        out["air_mode"] = "isa"
+    return out
+
+
 def air_from_args(args) -> AirState:
-    """The air state the options describe (ISA where something is not given)."""
-    rh = check_number("humidity-pct", args.humidity_pct, "%", low=0.0, high=100.0) / 100.0
+    """The air state the options describe (ISA where something is not given), each option checked
+    against the one air-state input spec (:func:`liftcore.air.air_inputs`)."""
+    rh = _air_field("relative_humidity_pct", "humidity-pct", args.humidity_pct) / 100.0
     t = None
     if args.temperature_c is not None:
-        t = check_number("temperature-c", args.temperature_c, "degC", low=-73.15, high=76.85) + 273.15
+        t = _air_field("temperature_k", "temperature-c", args.temperature_c)
     if args.pressure_pa is not None:
-        check_number("pressure-pa", args.pressure_pa, "Pa", low=20000.0, high=110000.0)
+        _air_field("pressure_pa", "pressure-pa", args.pressure_pa)
     if args.altitude_m is not None:
-        check_number("altitude-m", args.altitude_m, "m", low=-500.0, high=11000.0)
+        _air_field("altitude_m", "altitude-m", args.altitude_m)
     return air_state(args.altitude_m, t, args.pressure_pa, rh)
 
 
@@ -41,6 +74,11 @@ def density_from_args(args, allow_zero: bool = False) -> tuple[float, AirState]:
     rho = getattr(args, "density_kg_m3", None)
     if rho is None:
         return air.density_kg_m3, air
+    if (args.altitude_m is not None or args.temperature_c is not None or args.pressure_pa is not None
+            or args.humidity_pct not in (None, 0.0)):
+        raise InputError("--density-kg-m3", "give either --density-kg-m3 or the air-state options "
+                                            "(--altitude-m, --temperature-c, --pressure-pa, "
+                                            "--humidity-pct), not both")
     if allow_zero and rho == 0.0:  # vacuum, where the command allows it
         return 0.0, air
     # the lowest is the field page's given density (thinner than the ISA air at 30 km)

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from liftcore.balls import BALL_KEYS, MODEL_KEYS
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import add_air_options, density_from_args, text_table
+from liftcore.cli.common import add_air_options, air_values, density_from_args, text_table
 from liftcore.errors import InputError, check_choice, check_number
 from liftcore.studies import run_study
 
@@ -69,8 +69,7 @@ def values_from_args(args) -> dict:
         "spin_rpm": args.spin_rpm, "spin_axis_deg": args.spin_axis_deg, "rifle_deg": args.rifle_deg,
         "azimuth_deg": args.azimuth_deg, "launch_height_m": args.launch_height_m,
         "spin_decay": not args.no_spin_decay,
-        "air_mode": "measured", "altitude_m": args.altitude_m or 0.0, "temperature_k": air.temperature_k,
-        "pressure_pa": air.pressure_pa, "relative_humidity_pct": 100.0 * air.relative_humidity,
+        **air_values(args),
         "wind_speed_m_s": args.wind_speed_m_s, "wind_from_deg": args.wind_from_deg,
         "wind_profile": args.wind_profile, "dispersion_n": args.dispersion, "dispersion_seed": args.seed,
     }

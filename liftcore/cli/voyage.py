@@ -18,7 +18,7 @@ from pathlib import Path
 
 from liftcore import coefficients as coef
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import add_air_options, air_from_args, require_one, text_table, validate_inputs
+from liftcore.cli.common import add_air_options, air_values, require_one, text_table, validate_inputs
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError, check_number
 from liftcore.files import read_text
@@ -142,7 +142,7 @@ def values_from_args(args) -> tuple[dict, str]:
         v["correct_aspect_ratio"] = False
     if args.coefficients:
         v.update(_coefficients(args.coefficients))
-    v.update(_air(args))
+    v.update(air_values(args))
     if args.ship_speed_kn is not None:
         v["ship_speed_m_s"] = check_number("ship-speed-kn", args.ship_speed_kn, "kn", low=0.5,
                                            high=30.0) * KNOT_M_S
@@ -156,6 +156,9 @@ def values_from_args(args) -> tuple[dict, str]:
         v["hours_from_series"] = False
     elif kind != "series":
         raise InputError("hours-at-sea", "give --hours-at-sea (hours at sea per year, 1 to 8760 h)")
+    if kind != "weibull" and (args.course_deg is not None or args.one_way):
+        raise InputError("--course-deg", "--course-deg and --one-way apply to --weibull only "
+                                         "(a table or a series holds its own wind angles)")
     if kind == "weibull":
         if args.course_deg is None:
             raise InputError("course-deg", "give --course-deg (the course on the trade, 0 to 360 deg "
@@ -183,19 +186,6 @@ def _coefficients(name: str) -> dict:
     table = read_text(path, "--coefficients", MAX_CSV_BYTES)
     coef.user_coefficient_set(table, source=f"--coefficients file {path.name}")  # check, naming the file
     return {"coefficient_set": "user", "user_coefficients_csv": table}
-
-
-def _air(args) -> dict:
-    """The study's air inputs from the shared air options (ISA at an altitude, or measured)."""
-    air = air_from_args(args)  # checks the ranges, naming the options
-    out = {}
-    if args.altitude_m is not None:
-        out["altitude_m"] = args.altitude_m
-    if args.humidity_pct:
-        out["relative_humidity_pct"] = args.humidity_pct
-    if args.temperature_c is not None or args.pressure_pa is not None:
-        out.update(air_mode="measured", temperature_k=air.temperature_k, pressure_pa=air.pressure_pa)
-    return out
 
 
 def _validate(values: dict) -> dict:
