@@ -87,3 +87,23 @@ def test_command_runs_as_a_module():
                        capture_output=True, text=True, timeout=60)
     assert p.returncode == 0, p.stderr
     assert "Carry" in p.stdout and "not for safety distances" in p.stdout
+
+
+def test_a_flight_command_imports_only_what_it_needs():
+    """Start-up: a one-flight run loads no table, chart or unit library (their import alone took
+    more than the flight; see benchmarks/bench_startup.py for the timing side by side)."""
+    code = ("import sys; from liftcore.cli import main; "
+            "rc = main(['flight', '--ball', 'golf', '--speed-m-s', '65', '--elevation-deg', '12', "
+            "'--spin-rpm', '2700', '--dispersion', '50', '--json']); "
+            "print(rc, sorted({m.split('.')[0] for m in sys.modules} & "
+            "{'pandas', 'plotly', 'pint', 'dask', 'streamlit'}), file=sys.stderr)")
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
+    assert done.stderr.strip().splitlines()[-1] == "0 []", done.stderr
+
+
+def test_help_lists_every_command_without_importing_them(capsys):
+    with pytest.raises(SystemExit):
+        main(["--help"])
+    out = capsys.readouterr().out
+    for name in ("air", "flow", "rotor", "voyage", "flight", "run"):
+        assert name in out

@@ -23,6 +23,16 @@ from liftcore.errors import InputError
 
 #: command name -> module under liftcore.cli
 COMMANDS = ("air", "flow", "rotor", "voyage", "flight", "run")
+#: One line per command for ``liftcore --help`` (the command's own module is imported only when
+#: it runs: a one-flight command does not pay for pandas, Pint and the rotor's data).
+COMMAND_HELP = {
+    "air": "air density, viscosity and speed of sound",
+    "flow": "ideal flow round a spinning cylinder: circulation and Kutta-Joukowski lift",
+    "rotor": "rotor sails on a ship: forces, spin power, net gain, best spin",
+    "voyage": "yearly energy, fuel, CO2 and money saved by rotor sails on a trade",
+    "flight": "flight of a spinning ball: carry, peak height, drift, landing",
+    "run": "run a scenario or comparison file (.toml)",
+}
 
 
 class UsageError(Exception):
@@ -34,18 +44,19 @@ class _Parser(argparse.ArgumentParser):
         raise UsageError(f"{self.prog}: {message}")
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser(argv=None) -> argparse.ArgumentParser:
+    """The parser; with ``argv``, only the command it names is imported and built in full (the
+    others are listed by name and help only)."""
     parser = _Parser(prog="liftcore", description="Lift, drag, thrust and power of spinning "
                      "cylinders and spheres.")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     sub.required = True
+    chosen = next((a for a in (argv or ()) if not a.startswith("-")), None)
     for name in COMMANDS:
-        try:
-            mod = importlib.import_module(f"liftcore.cli.{name}")
-        except ModuleNotFoundError as exc:
-            if exc.name == f"liftcore.cli.{name}":
-                continue  # command not built yet
-            raise
+        if argv is not None and name != chosen:
+            sub.add_parser(name, help=COMMAND_HELP[name], add_help=False)
+            continue
+        mod = importlib.import_module(f"liftcore.cli.{name}")
         p = mod.add_parser(sub)
         p.set_defaults(_execute=mod.execute)
     return parser
@@ -114,8 +125,8 @@ def join_negative_values(argv: list[str]) -> list[str]:
 def main(argv=None) -> int:
     progress = Progress()
     try:
-        parser = build_parser()
-        args = parser.parse_args(join_negative_values(list(sys.argv[1:] if argv is None else argv)))
+        argv = join_negative_values(list(sys.argv[1:] if argv is None else argv))
+        args = build_parser(argv).parse_args(argv)
         data, text = args._execute(args, progress)
     except UsageError as exc:
         print(str(exc).replace("\n", " "), file=sys.stderr)

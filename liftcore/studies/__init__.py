@@ -33,7 +33,7 @@ from __future__ import annotations
 
 import importlib
 import threading
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field as dc_field, replace  # not `field`: that is a study kind
 from typing import Any, Callable
 
@@ -144,6 +144,38 @@ def quantity_table(rows, system: str = "SI"):
         out.append({"quantity": column_label(key), "value": float(units.to_display(value, kind, system)),
                     "unit": unit})
     return pd.DataFrame(out, columns=["quantity", "value", "unit"])
+
+
+class Tables(Mapping):
+    """A study's tables by name: pandas DataFrames, each built only when first looked at.
+
+    Built from a dict of name -> DataFrame or zero-argument function, so a study whose tables
+    are not asked for (a one-line command-line run) does not import pandas for them. Reads like
+    the plain dict it stands for; ``tables[name]`` builds just that one.
+    """
+
+    def __init__(self, items=None):
+        self._items = dict(items or {})
+        self._lock = threading.Lock()
+
+    def __getitem__(self, name):
+        table = self._items[name]
+        if callable(table):
+            with self._lock:
+                table = self._items[name]
+                if callable(table):
+                    table = table()
+                    self._items[name] = table
+        return table
+
+    def __iter__(self):
+        return iter(self._items)
+
+    def __len__(self) -> int:
+        return len(self._items)
+
+    def __repr__(self) -> str:
+        return f"Tables({list(self._items)})"
 
 
 class Charts(Sequence):

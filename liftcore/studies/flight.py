@@ -10,16 +10,14 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 import numpy as np
-import pandas as pd
 
 from liftcore import ballflight as bf
-from liftcore import figures_ball as fb
 from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number
-from liftcore.studies import Charts, Headline, StudyResult, table_in_units
+from liftcore.studies import Charts, Headline, StudyResult, Tables, table_in_units
 from liftcore.validity import ModelWarning, merge
 
 KIND = "flight"
@@ -341,6 +339,8 @@ SWEEP_LABELS = {k: (v[0], v[1]) for k, v in bf.SWEEP_INPUTS.items()}
 def sweep_figure(sw: bf.SweepResult, values: dict, system: str = "SI", searched=None):
     """The sweep's heat map in ``system``'s units (``searched``: a best point to mark)."""
     out_label, out_kind = bf.OUTPUTS[values["sweep_output"]]
+    from liftcore import figures_ball as fb  # plotly only when a chart is drawn
+
     return fb.sweep_heatmap(sw, SWEEP_LABELS, out_label, out_kind, system, searched=searched)
 
 
@@ -418,12 +418,10 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     heads = tuple(Headline(k, label, getattr(main, k), kind, 3 if k != "carry_m" else 4, HEADLINE_HELP[k])
                   for k, (label, kind) in bf.OUTPUTS.items())
     figs = flight_figures(flights, disp, "SI", sw, values)
-    tables = {}
-    for f in flights:
-        df = pd.DataFrame(f.path)
-        tables[f"path: {f.label}"] = df
-    tables["flights"] = pd.DataFrame([{"flight": f.label, **f.headline_dict(),
-                                       "landing_spin_rpm": f.landing_spin_rpm} for f in flights])
+    # Tables are built when asked for (pandas is not imported for a one-line command-line run).
+    tables = {f"path: {f.label}": (lambda f=f: _frame(f.path)) for f in flights}
+    tables["flights"] = lambda: _frame([{"flight": f.label, **f.headline_dict(),
+                                         "landing_spin_rpm": f.landing_spin_rpm} for f in flights])
     js = {k: getattr(main, k) for k in bf.OUTPUTS}
     js["warnings"] = [w.as_dict() for w in merge(warnings)]
     js["ball"] = setup.ball.key
@@ -434,19 +432,20 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         js["comparison"] = {"label": cmp[0].label, **cmp[0].headline_dict(),
                             "warnings": [w.as_dict() for w in cmp_ws]}
     if sw is not None:
-        tables["sweep"] = sweep_table(sw, values)
+        tables["sweep"] = lambda: sweep_table(sw, values)
         js["sweep"] = {"x": sw.x_key, "y": sw.y_key, "output": values["sweep_output"],
                        "best_value": sw.best_value, "best_x": sw.best_x, "best_y": sw.best_y}
     if fit is not None:
-        tables["fit"] = fit.table()
+        tables["fit"] = fit.table
         js["fit"] = {"mode": fit.mode, "rms_m": fit.rms_m,
                      **{name: {"value": v, "sd": sd} for name, (v, sd) in
                         ((n, fit.parameter(n)) for n in fit.names[:2])}}
     if disp is not None:
         js["dispersion"] = disp.summary()
-        tables["spread"] = pd.DataFrame({"carry_m": disp.carry_m, "lateral_m": disp.lateral_m,
-                                         "flight_time_s": disp.flight_time_s, **{f"launch_{k}": v for k, v in disp.draws.items()}})
-    return StudyResult(KIND, dict(values), heads, merge(warnings), figs, tables,
+        tables["spread"] = lambda: _frame({"carry_m": disp.carry_m, "lateral_m": disp.lateral_m,
+                                           "flight_time_s": disp.flight_time_s,
+                                           **{f"launch_{k}": v for k, v in disp.draws.items()}})
+    return StudyResult(KIND, dict(values), heads, merge(warnings), figs, Tables(tables),
                        FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws, sw, fit), js)
 
 
@@ -465,21 +464,35 @@ DISPLAY_NAMES = {"x_m": "downrange_m", "lateral_m": "drift_right_m", "z_m": "hei
                  "speed_m_s": "ball_speed_m_s", "reynolds": "Reynolds_number", "cd": "CD", "cl": "CL"}
 
 
+def _frame(data):
+    """``data`` as a pandas DataFrame (pandas imported only when a table is built)."""
+    import pandas as pd
+
+    return pd.DataFrame(data)
+
+
 def sweep_table(sw: bf.SweepResult, values: dict):
     """The sweep as a long table: the two inputs and the mapped result at every grid point."""
     xx, yy = np.meshgrid(sw.x_values, sw.y_values)
-    return pd.DataFrame({sw.x_key: xx.ravel(), sw.y_key: yy.ravel(),
-                         values["sweep_output"]: np.asarray(sw.grid).ravel()})
+    return _frame({sw.x_key: xx.ravel(), sw.y_key: yy.ravel(),
+                   values["sweep_output"]: np.asarray(sw.grid).ravel()})
 
 
 def flight_figures(flights, disp=None, system: str = "SI", sw=None, values=None) -> Charts:
     """(title, figure) pairs of the study in ``system``'s display units."""
-    figs = [("Flight path in 3-D", lambda: fb.trajectory_3d(flights, system)),
-            ("Side view", lambda: fb.side_view(flights, system)),
-            ("Top view", lambda: fb.top_view(flights, system)),
-            ("Along the flight", lambda: fb.along_flight(flights, system))]
+    def draw(name, *args):  # plotly is imported when the first chart is drawn, not before
+        def make():
+            from liftcore import figures_ball as fb
+
+            return getattr(fb, name)(*args, system)
+        return make
+
+    figs = [("Flight path in 3-D", draw("trajectory_3d", flights)),
+            ("Side view", draw("side_view", flights)),
+            ("Top view", draw("top_view", flights)),
+            ("Along the flight", draw("along_flight", flights))]
     if disp is not None:
-        figs.append(("Landing spread", lambda: fb.dispersion_figure(disp, system)))
+        figs.append(("Landing spread", draw("dispersion_figure", disp)))
     if sw is not None:
         figs.append(("Launch sweep", lambda: sweep_figure(sw, values, system)))
     return Charts(figs)
@@ -523,7 +536,7 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
         return table_in_units(df, {c: k for c, k in kinds.items() if c in df.columns}, system)
 
     flights = display_flights(result, system)
-    out = {f"path: {f.label}": shown(pd.DataFrame(f.path)) for f in flights}
+    out = {f"path: {f.label}": shown(_frame(f.path)) for f in flights}
     table = result.tables["flights"].copy()
     table["flight"] = [f.label for f in flights]
     out["flights"] = shown(table)
