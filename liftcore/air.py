@@ -12,7 +12,7 @@ import numpy as np
 from liftcore.constants import (EARTH_RADIUS_ISA_M, G0, GAMMA_AIR, ISA_LAPSE_RATE, ISA_P0, ISA_T0, ISA_TROPOPAUSE_M,
                                 R_DRY_AIR, R_WATER_VAPOUR, SUTHERLAND_BETA, SUTHERLAND_S,
                                 ZERO_CELSIUS_K)
-from liftcore.errors import check_number
+from liftcore.errors import InputError, check_number
 from liftcore.validity import ModelWarning
 
 #: Exponent of the ISA troposphere pressure law, g0 / (R L) = 5.25588 (ISO 2533).
@@ -210,6 +210,11 @@ def air_state(altitude_m: float | None = None, temperature_k: float | None = Non
     p = float(isa_pressure(hg)) if pressure_pa is None else check_number(
         "pressure", pressure_pa, "Pa", low=20000.0, high=110000.0)
     rh = check_number("relative humidity", relative_humidity, "(fraction)", low=0.0, high=1.0)
+    e = rh * float(saturation_vapour_pressure_alduchov1996(t))
+    if e >= p:
+        raise InputError("relative humidity", f"relative humidity {100 * rh:g} % at {t - ZERO_CELSIUS_K:g} °C puts the vapour "
+                         f"pressure at {e:.0f} Pa, at or above the total pressure {p:.0f} Pa (water boils): "
+                         f"give a lower humidity or temperature, or a higher pressure")
     rho = float(humid_air_density(t, p, rh))
     mu = float(dynamic_viscosity_sutherland(t))
     warnings = ()

@@ -43,11 +43,14 @@ import numpy as np
 
 from liftcore.balls import MODELS, RPM_RAD_S, BallSpec, CoefficientModel, ball, model as get_model
 from liftcore.constants import G0
-from liftcore.errors import InputError, check_choice, check_number
+from liftcore.errors import InputError, check_choice, check_number, echo
 from liftcore.validity import MACH_INCOMPRESSIBLE_LIMIT, ModelWarning, merge
 
 #: Flights still in the air after this time are stopped and flagged. [s]
 T_MAX_S = 60.0
+#: Integration steps after which the flights still in the air are stopped where they are (a
+#: normal flight takes a few hundred; a ball looping under a lift far above its weight never ends).
+MAX_STEPS = 20_000
 #: Height below which the power-law wind profile is held constant (avoids a singular slope). [m]
 WIND_PROFILE_FLOOR_M = 0.05
 #: chi-square quantile with 2 degrees of freedom for a 95 % ellipse, -2 ln(0.05) (analytic).
@@ -391,6 +394,8 @@ class BatchResult:
     steps: int = 0
     rhs_evals: int = 0
     records: tuple = ()
+    #: Flights stopped unfinished at :data:`MAX_STEPS` integration steps.
+    stalled: int = 0
 
     @property
     def n(self) -> int:
@@ -470,6 +475,7 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
     h = np.where((d0 < 1e-5) | (d1 < 1e-5), 1e-4, 0.01 * d0 / np.maximum(d1, 1e-30))
     h = np.clip(h, 1e-5, 0.05)
     steps = 0
+    stalled = 0
     last_report = 0.0
     while ids.size:
         steps += 1
@@ -559,8 +565,16 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
                 if frac - last_report >= 0.05:
                     last_report = frac
                     progress(frac, f"flying {n:,} balls")
-        if steps > 200000:  # pragma: no cover - guard against a stalled step size
-            raise RuntimeError("flight integration did not finish (step size collapsed)")
+        if ids.size and steps >= MAX_STEPS:
+            # Stalled: a ball whose lift is far above its weight loops on a tiny circle (or the
+            # step size collapsed). Stop the rest where they are; flight_warnings says so.
+            gid = ids
+            out["t"][gid] = t
+            out["x"][gid], out["y"][gid] = Y[0], Y[1]
+            out["vx"][gid], out["vy"][gid], out["vz"][gid], out["w"][gid] = Y[3], Y[4], Y[5], Y[6]
+            peak[gid], smin[gid], smax[gid], remin[gid], remax[gid], vmax[gid] = pk, smn, smx, rmn, rmx, vmx
+            stalled = int(ids.size)
+            break
     horiz = np.hypot(out["vx"], out["vy"])
     records = ()
     if record:
@@ -571,7 +585,7 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
         landing_speed_m_s=np.sqrt(horiz ** 2 + out["vz"] ** 2),
         landing_spin_rpm=out["w"] / RPM_RAD_S, landed=landed, s_min=smin, s_max=smax,
         re_min=remin, re_max=remax, speed_rel_max_m_s=vmax, steps=steps, rhs_evals=rhs.evals,
-        records=records)
+        records=records, stalled=stalled)
 
 
 def _split_records(n, rec_t, rec_y, rec_f, rec_id):
@@ -746,9 +760,15 @@ def flight_warnings(setup: FlightSetup, res: BatchResult, launch: Launch | None 
         ws.append(ModelWarning(
             "coefficients_from_memory",
             f"{m.title}: {m.note}", ""))
-    if not np.all(res.landed):
-        k = int(np.sum(~res.landed))
-        ws.append(ModelWarning("did_not_land", f"{k} flight(s) still in the air after {T_MAX_S:.0f} s: "
+    if res.stalled:
+        ws.append(ModelWarning("flight_stopped_unfinished",
+                               f"{res.stalled} flight(s) stopped unfinished after {MAX_STEPS:,} integration "
+                               "steps (the ball loops on a small circle: its lift is far above its "
+                               "weight, an unphysical mix of mass, size and coefficients): results are "
+                               "not landings", "carry_m", "invalid"))
+    late = int(np.sum(~res.landed)) - res.stalled
+    if late > 0:
+        ws.append(ModelWarning("did_not_land", f"{late} flight(s) still in the air after {T_MAX_S:.0f} s: "
                                "results are not landings", "carry_m", "invalid"))
     return merge(ws)
 
@@ -984,6 +1004,18 @@ def dispersion(setup: FlightSetup, base: Launch, sd: dict, n: int = 1000, seed: 
 # ----------------------------------------------------------------------------- tracked flights
 TRACK_COLUMNS = ("flight", "t", "x", "y", "z")
 MAX_TRACK_ROWS = 20000
+#: Bounds of tracked observations: positions [m] (further than any ball flies), times [s], the
+#: shortest time between two observations of a flight [s] (faster than any tracker samples; it
+#: also bounds the fit's integration, whose fixed step covers each flight's span).
+TRACK_POSITION_LIMIT_M = 2000.0
+TRACK_TIME_LIMIT_S = 86400.0
+MIN_TRACK_STEP_S = 1e-4
+#: Largest launch speed component the track fit may try. [m/s]
+FIT_SPEED_LIMIT_M_S = 200.0
+#: Range of the two fitted coefficients (CD or its scale, CL or its scale). [-]
+FIT_BOUNDS = ((0.0, 5.0), (-3.0, 5.0))
+#: RMS miss of the fitted flights above which the fit is warned about. [m]
+FIT_RMS_WARN_M = 1.0
 FIT_MODES = ("constant", "scale")
 
 
@@ -994,7 +1026,8 @@ def read_tracks(source) -> "pd.DataFrame":
     ``flight`` a label (text or number) grouping rows of one flight; ``t`` time since the first
     observation of that flight [s]; ``x`` downrange, ``y`` drift to the RIGHT, ``z`` height
     above the ground [m]. Lines starting with ``#`` are comments. At least 6 rows per flight,
-    times strictly increasing within a flight, at most 20 000 rows.
+    times strictly increasing within a flight, at least 1e-4 s apart and spanning at most
+    60 s, positions within 2 km, at most 20 000 rows.
     """
     import pandas as pd
 
@@ -1015,6 +1048,9 @@ def read_tracks(source) -> "pd.DataFrame":
     if missing:
         raise InputError("tracks file", f"tracks file needs the columns {', '.join(TRACK_COLUMNS)} "
                                         f"(missing: {', '.join(missing)})")
+    if len(df) == 0:
+        raise InputError("tracks file", "tracks file has no data rows under the header "
+                                        f"{','.join(TRACK_COLUMNS)}; it needs at least 6 rows per flight")
     if len(df) > MAX_TRACK_ROWS:
         raise InputError("tracks file", f"tracks file must have at most {MAX_TRACK_ROWS} rows (got {len(df)})")
     df = df[list(TRACK_COLUMNS)].copy()
@@ -1026,12 +1062,28 @@ def read_tracks(source) -> "pd.DataFrame":
             i = int(np.flatnonzero(bad)[0])
             raise InputError("tracks file", f"tracks file column {c} row {i + 1} must be a finite number "
                                             f"(got {df[c].iloc[i]!r})")
+        limit = TRACK_TIME_LIMIT_S if c == "t" else TRACK_POSITION_LIMIT_M
+        big = np.flatnonzero(np.abs(vals.to_numpy(dtype=float)) > limit)
+        if big.size:
+            i = int(big[0])
+            unit = "s" if c == "t" else "m"
+            raise InputError("tracks file", f"tracks file column {c} row {i + 1} is {float(vals.iloc[i]):.6g} {unit}; "
+                                            f"{c} must be between {-limit:g} and {limit:g} {unit}")
         df[c] = vals.astype(float)
     for name, g in df.groupby("flight", sort=False):
+        label = echo(name)
         if len(g) < 6:
-            raise InputError("tracks file", f"flight {name!r} has {len(g)} rows; at least 6 are needed")
-        if np.any(np.diff(g["t"].to_numpy()) <= 0):
-            raise InputError("tracks file", f"flight {name!r}: times must increase strictly")
+            raise InputError("tracks file", f"flight {label} has {len(g)} rows; at least 6 are needed")
+        steps = np.diff(g["t"].to_numpy())
+        if np.any(steps <= 0):
+            raise InputError("tracks file", f"flight {label}: times must increase strictly")
+        if steps.min() < MIN_TRACK_STEP_S:
+            raise InputError("tracks file", f"flight {label}: observations {steps.min():.3g} s apart; at least "
+                                            f"{MIN_TRACK_STEP_S:g} s are needed (is t in seconds?)")
+        span = float(g["t"].iloc[-1] - g["t"].iloc[0])
+        if span > T_MAX_S:
+            raise InputError("tracks file", f"flight {label} spans {span:.6g} s; a tracked flight may span at most "
+                                            f"{T_MAX_S:g} s (is t in seconds?)")
     if df["flight"].nunique() > 20:
         raise InputError("tracks file", f"at most 20 flights per file (got {df['flight'].nunique()})")
     return df.reset_index(drop=True)
@@ -1061,6 +1113,25 @@ class FitResult:
         import pandas as pd
 
         return pd.DataFrame({"parameter": self.names, "value": self.values, "sd": self.sd})
+
+    def warnings(self) -> tuple:
+        """What makes the fitted values doubtful: a search that stopped before it converged, a
+        coefficient held at its bound, or positions missed by more than :data:`FIT_RMS_WARN_M`."""
+        out = []
+        if not self.success:
+            out.append(ModelWarning("fit_not_converged", f"the fit stopped before it converged after "
+                                    f"{self.nfev} evaluations ({self.message.rstrip('.')}): the values "
+                                    "are the last tried, not a best fit", "", "invalid"))
+        for i, (low, high) in enumerate(FIT_BOUNDS):
+            v = float(self.values[i])
+            if math.isclose(v, low, abs_tol=1e-6) or math.isclose(v, high, abs_tol=1e-6):
+                out.append(ModelWarning("fit_at_bound", f"{self.names[i]} ended at its bound {v:g} "
+                                        f"(allowed {low:g} to {high:g}): the tracks do not fix it", ""))
+        if self.rms_m > FIT_RMS_WARN_M:
+            out.append(ModelWarning("fit_misses_tracks", f"the fitted flights miss the tracked positions by "
+                                    f"{self.rms_m:.3g} m RMS: look for outliers, a wrong spin or "
+                                    "positions not in metres", ""))
+        return tuple(out)
 
 
 def _initial_state_guess(g):
@@ -1178,10 +1249,13 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
         pos = model_positions(cols)
         return (pos[:, 1:] - pos[:, [0]]) / steps
 
-    lo = np.full(p, -np.inf)
-    hi = np.full(p, np.inf)
-    lo[0], hi[0] = 0.0, 5.0
-    lo[1], hi[1] = -3.0, 5.0
+    # Bounds: the coefficients within what any ball shows, each flight's first position within the
+    # tracks' limit and its velocity within the launch speeds the product accepts (an outlier
+    # cannot send the search to speeds that overflow the integration).
+    state_hi = np.array([TRACK_POSITION_LIMIT_M] * 3 + [FIT_SPEED_LIMIT_M_S] * 3)
+    lo = np.concatenate([[b[0] for b in FIT_BOUNDS], np.tile(-state_hi, nf)])
+    hi = np.concatenate([[b[1] for b in FIT_BOUNDS], np.tile(state_hi, nf)])
+    x0 = np.clip(x0, lo, hi)
     sol = least_squares(fun, x0, jac=jac, bounds=(lo, hi), method="trf", x_scale="jac",
                         max_nfev=60)
     r = sol.fun

@@ -49,6 +49,10 @@ SAMPLES_PER_CELL = 8
 #: Most loops, and most sample points over all loops (a loop that fits a grid of
 #: MAX_FIELD_POINTS points has far fewer; this bounds what a user input can make).
 MAX_LOOPS = 200
+#: Largest velocity component and coordinate a field may hold [m/s], [m]: far beyond any
+#: incompressible flow or measurement grid, and small enough that a circulation cannot overflow.
+MAX_FIELD_SPEED_M_S = 1000.0
+MAX_FIELD_COORDINATE_M = 1.0e6
 MAX_LOOP_POINTS = 2_000_000
 LOOP_SHAPES = ("circle", "rectangle")
 REQUIRED_COLUMNS = ("x", "y", "u", "v")
@@ -135,7 +139,9 @@ def read_field_csv(source, name: str = "velocity field") -> pd.DataFrame:
     except UnicodeDecodeError:
         raise InputError("file", f"{name} is not UTF-8 text (is it a CSV file with columns x, y, u, v?)") from None
     try:
-        return pd.read_csv(io.StringIO(text), comment="#", skipinitialspace=True)
+        # Only an empty cell is missing: a written "nan" or "inf" stays text and is named as typed.
+        return pd.read_csv(io.StringIO(text), comment="#", skipinitialspace=True,
+                           keep_default_na=False, na_values=[""])
     except (pd.errors.ParserError, pd.errors.EmptyDataError, ValueError) as exc:
         first = str(exc).strip().splitlines()[0] if str(exc).strip() else type(exc).__name__
         raise InputError("file", f"{name} is not a readable CSV table: {first}") from None
@@ -210,6 +216,13 @@ def field_from_table(table: pd.DataFrame) -> VelocityField:
             raise InputError(c, f"velocity field: {c} in data row {row(k)} is not a finite number "
                                 f"(got {shown}); {c} must be a number in "
                                 f"{'m' if c in ('x', 'y') else 'm/s'}")
+        limit = MAX_FIELD_COORDINATE_M if c in ("x", "y") else MAX_FIELD_SPEED_M_S
+        big = np.flatnonzero(np.abs(vals) > limit)
+        if big.size:
+            k = int(big[0])
+            unit = "m" if c in ("x", "y") else "m/s"
+            raise InputError(c, f"velocity field: {c} in data row {row(k)} is {vals[k]:.6g} {unit}; "
+                                f"{c} must be between {-limit:g} and {limit:g} {unit}")
         arrays[c] = vals
     xs, ix = _axis(arrays["x"], "x", row)
     ys, iy = _axis(arrays["y"], "y", row)

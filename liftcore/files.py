@@ -91,6 +91,62 @@ def read_text(path: str | Path, option: str, max_bytes: int = MAX_DATA_BYTES) ->
     return read_bytes(path, option, max_bytes).decode("utf-8-sig", errors="replace")
 
 
+def data_row_line(source, row: int, comment: str = "#") -> int | None:
+    """The line of a CSV file (counted from 1, as an editor counts) that holds data row ``row``.
+
+    The CSV readers skip blank lines and lines that hold only a ``comment``, so the n-th data row
+    is rarely the file's line n + 1; error messages name both. Only called when a row is refused,
+    so the file is scanned once, on the error path, line by line (a long series costs no memory).
+
+    Parameters
+    ----------
+    source : str, Path, bytes or seekable binary file
+        The file that was read.
+    row : int
+        Data row under the header, from 0.
+    comment : str
+        Character that starts a comment.
+
+    Returns
+    -------
+    int or None
+        The line, or None when the source cannot be read again (a stream) or has fewer rows (a
+        quoted value running over several lines).
+    """
+    if isinstance(source, (bytes, bytearray)):
+        lines = iter(bytes(source).splitlines())
+        return _line_of(lines, row, comment)
+    if isinstance(source, (str, Path)):
+        try:
+            with open_regular(source, "file") as fh:
+                return _line_of(fh, row, comment)
+        except (InputError, OSError):
+            return None
+    if hasattr(source, "seek") and hasattr(source, "read"):
+        try:
+            here = source.tell()
+            source.seek(0)
+            data = source.read(MAX_DATA_BYTES)
+            source.seek(here)
+        except (OSError, ValueError):
+            return None
+        if isinstance(data, str):
+            data = data.encode("utf-8")
+        return _line_of(iter(data.splitlines()), row, comment)
+    return None
+
+
+def _line_of(lines, row: int, comment: str) -> int | None:
+    mark = comment.encode()
+    seen = -2  # the header is the first line with content
+    for number, line in enumerate(lines, start=1):
+        if line.split(mark, 1)[0].strip():
+            seen += 1
+            if seen == row:
+                return number
+    return None
+
+
 def _short(p) -> str:
     s = str(p)
     return s if len(s) <= 80 else s[:38] + "…" + s[-38:]

@@ -181,4 +181,13 @@ def rotor_warnings(setup, w, omega, res, re, flags, mode: str, n: int) -> tuple:
     m = w.va_mid <= CALM_M_S
     if m.any():
         out.append(ModelWarning("calm", f"No apparent wind: no forces{_count(m, n)}.", "thrust_n"))
+    turning = m & (np.asarray(omega) > 0)
+    if turning.any():
+        # spin ratio omega R / V has no value at V = 0 (null in JSON, "inf" in text)
+        what = ("the set's spin power CP·½ρAV³ is zero there; the skin-friction model's estimate, shown "
+                "beside it, is what the motor still draws" if setup.power_from_set else
+                "the spin power is the skin-friction model's")
+        out.append(ModelWarning("spin_in_still_air",
+                                f"The rotor turns in still air{_count(turning, n)}: the spin ratio has "
+                                f"no value (no wind to divide by) and {what}.", "spin_ratio"))
     return tuple(out)

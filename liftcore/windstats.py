@@ -47,7 +47,8 @@ import pandas as pd
 from scipy import special
 
 from liftcore.errors import InputError, check_number
-from liftcore.files import open_regular, read_bytes
+from liftcore.files import data_row_line, open_regular, read_bytes
+from liftcore.validity import ModelWarning
 
 #: Columns of a joint wind table, in order.
 TABLE_COLUMNS = ("true_wind_angle_deg", "true_wind_speed_m_s", "probability")
@@ -71,6 +72,8 @@ DEFAULT_CHUNK_ROWS = 50_000
 #: Weibull discretisation: speed bin width [m/s] and the start of the open top bin [m/s].
 WEIBULL_SPEED_STEP_M_S = 1.0
 WEIBULL_TOP_SPEED_M_S = 30.0
+#: Share of the time above MAX_WIND_SPEED_M_S from which Weibull sectors are warned about.
+WEIBULL_SHARE_ABOVE_TOP = 0.001
 #: Largest direction step when a Weibull sector is spread over sub-directions [deg].
 WEIBULL_DIRECTION_STEP_DEG = 10.0
 
@@ -204,9 +207,13 @@ class CellError(Exception):
         self.column = column
         self.detail = detail
 
-    def input_error(self, label: str, row_offset: int = 0) -> InputError:
-        """The one-line user error, with the row counted from 1 over the whole file."""
-        return InputError(self.column, f"{label}, row {row_offset + self.row + 1}: {self.detail}")
+    def input_error(self, label: str, row_offset: int = 0, source=None) -> InputError:
+        """The one-line user error, with the row counted from 1 over the whole file and, when the
+        ``source`` can be read again, the file's line (comments and blank lines counted)."""
+        row = row_offset + self.row
+        line = data_row_line(source, row) if source is not None else None
+        where = f"row {row + 1}" + (f" (line {line})" if line is not None and line != row + 2 else "")
+        return InputError(self.column, f"{label}, {where}: {self.detail}")
 
 
 def numeric_column(df: pd.DataFrame, column: str, unit: str = "", *, low=None, high=None,
@@ -268,7 +275,7 @@ def read_wind_table(source, name: str | None = None) -> JointWind:
         speed = numeric_column(df, "true_wind_speed_m_s", "m/s", low=0.0, high=MAX_WIND_SPEED_M_S)
         prob = numeric_column(df, "probability", "", low=0.0, high=1.0)
     except CellError as exc:
-        raise exc.input_error(label) from None
+        raise exc.input_error(label, source=source) from None
     _check_sum(prob, label, "probability")
     return JointWind(wrap_angle_deg(angle), speed, prob, None, label)
 
@@ -312,6 +319,37 @@ class WeibullSectors:
         """Frequency-weighted mean of the sector means c Gamma(1 + 1/k). [m s^-1]"""
         return float(np.sum(self.frequency * weibull_mean(self.scale_m_s, self.shape)))
 
+    def share_above(self, speed_m_s: float) -> float:
+        """Share of the time the wind blows faster than ``speed_m_s``.
+
+        Parameters
+        ----------
+        speed_m_s : float
+            Wind speed. [m s^-1]
+
+        Returns
+        -------
+        float
+            sum over sectors of f exp(-(v/c)^k). [-]
+
+        References
+        ----------
+        .. [1] Justus et al. (1978), J. Appl. Meteor. 17, 350-353 (the Weibull distribution of
+           wind speed).
+        """
+        return float(np.sum(self.frequency * (1.0 - weibull_cdf(speed_m_s, self.scale_m_s, self.shape))))
+
+    def warnings(self) -> tuple:
+        """A warning when the sectors put a noticeable share of the time (over 0.1 %) above
+        :data:`MAX_WIND_SPEED_M_S`, the fastest wind a table or a series may hold."""
+        share = self.share_above(MAX_WIND_SPEED_M_S)
+        if share <= WEIBULL_SHARE_ABOVE_TOP:
+            return ()
+        return (ModelWarning("weibull_above_top_speed",
+                             f"{self.source}: the Weibull sectors put {100 * share:.3g} % of the time above "
+                             f"{MAX_WIND_SPEED_M_S:g} m/s, the fastest wind a table or series may hold: "
+                             "check the scale (m/s) and shape of each sector", ""),)
+
 
 def read_weibull_sectors(source, name: str | None = None) -> WeibullSectors:
     """Read and check Weibull parameters per direction sector.
@@ -331,7 +369,7 @@ def read_weibull_sectors(source, name: str | None = None) -> WeibullSectors:
                                low_inclusive=False)
         shape = numeric_column(df, "shape", "", low=0.5, high=10.0)
     except CellError as exc:
-        raise exc.input_error(label) from None
+        raise exc.input_error(label, source=source) from None
     _check_sum(freq, label, "frequency")
     wrapped = np.mod(centre, 360.0)
     if np.unique(np.round(wrapped, 6)).size != wrapped.size:
@@ -557,7 +595,7 @@ def iter_series(source, name: str | None = None, chunk_rows: int = DEFAULT_CHUNK
                 try:
                     block = check_series_frame(chunk, offset)
                 except CellError as exc:
-                    raise exc.input_error(label, offset) from None
+                    raise exc.input_error(label, offset, path) from None
                 offset += len(chunk)
                 yield block
                 if progress:

@@ -165,3 +165,121 @@ def test_shares_of_time_never_exceed_one(capsys):
     data = json.loads(capsys.readouterr().out)
     for key in ("running_share", "stopped_share", "limited_share"):
         assert 0.0 <= data[key] <= 1.0
+
+
+# ----------------------------------------------------------------------------- missing warnings
+def test_vapour_pressure_at_or_above_the_total_pressure_is_refused():
+    """Physics: water boils when its saturation vapour pressure reaches the total pressure;
+    e_s(77 °C) ≈ 42 kPa (Alduchov & Eskridge 1996 Magnus form) > 20 kPa."""
+    from liftcore.air import air_state
+
+    with pytest.raises(InputError, match="vapour pressure at 42[0-9]{3} Pa, at or above the total pressure 20000 Pa"):
+        air_state(temperature_k=350.0, pressure_pa=20000.0, relative_humidity=1.0)
+    assert air_state(temperature_k=340.0, pressure_pa=25000.0, relative_humidity=0.5).density_kg_m3 > 0
+
+
+def test_weibull_sectors_with_time_above_80_m_s_are_warned(tmp_path, capsys):
+    """P(v > 80) = f exp(-(80/c)^k) = 0.5 exp(-1) = 18.4 % for the first sector (closed form)."""
+    wb = tmp_path / "wb.csv"
+    wb.write_text("sector_centre_deg,frequency,scale_m_s,shape\n0,0.5,80,0.5\n180,0.5,10,2\n")
+    assert main(VOYAGE + ["--weibull", str(wb), "--course-deg", "0", "--no-spread", "--json"]) == 0
+    warnings = {w["code"]: w["message"] for w in json.loads(capsys.readouterr().out)["warnings"]}
+    assert "18.4 % of the time above 80 m/s" in warnings["weibull_above_top_speed"]
+    calm = tmp_path / "calm.csv"
+    calm.write_text("sector_centre_deg,frequency,scale_m_s,shape\n0,0.5,8,2\n180,0.5,10,2\n")
+    assert main(VOYAGE + ["--weibull", str(calm), "--course-deg", "0", "--no-spread", "--json"]) == 0
+    assert "weibull_above_top_speed" not in {w["code"] for w in json.loads(capsys.readouterr().out)["warnings"]}
+
+
+def test_a_field_of_1e308_is_refused_before_it_gives_an_infinite_lift():
+    from liftcore import fieldcirc as fc
+
+    lines = fc.field_to_table(fc.field_from_table(fc.demo_field_table())).to_csv(index=False).splitlines()
+    for value, message in (("1e308", "u in data row 5 is 1e+308 m/s; u must be between -1000 and 1000 m/s"),
+                           ("nan", "(got 'nan')"), ("", "(got empty)")):
+        bad = list(lines)
+        cells = bad[5].split(",")
+        cells[2] = value
+        bad[5] = ",".join(cells)
+        with pytest.raises(InputError) as err:
+            fc.field_from_table(fc.read_field_csv("\n".join(bad).encode()))
+        assert message in str(err.value)
+
+
+def test_a_rotor_turning_in_still_air_says_why_it_has_no_spin_ratio(capsys):
+    still = ["rotor", "--diameter-m", "5", "--height-m", "30", "--ship-speed-kn", "0",
+             "--true-wind-speed-kn", "0", "--true-wind-angle-deg", "90", "--rpm", "100"]
+    assert main(still + ["--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["spin_ratio"] is None
+    assert "the spin ratio has no value" in {w["code"]: w["message"] for w in data["warnings"]}["spin_in_still_air"]
+    assert main(still) == 0
+    assert "spin ratio none (still air)" in capsys.readouterr().out
+
+
+def test_a_refused_row_names_the_file_line_past_comments_and_blank_lines(tmp_path, capsys):
+    table = tmp_path / "wt.csv"
+    table.write_text("# invented\ntrue_wind_angle_deg,true_wind_speed_m_s,probability\n\n0,5,0.5\n# c\n90,-5,0.5\n")
+    refused(capsys, VOYAGE + ["--wind-table", str(table), "--no-spread"], "wt.csv, row 2 (line 6): true_wind_speed_m_s")
+    series = tmp_path / "s.csv"
+    rows = [f"2030-01-01T{h:02d}:00,12,90,{-3 if h == 5 else 8},200" for h in range(8)]
+    series.write_text("# invented\n" + SERIES_HEAD + "\n".join(rows[:3]) + "\n\n" + "\n".join(rows[3:]) + "\n")
+    refused(capsys, VOYAGE + ["--wind-series", str(series), "--no-spread"], "s.csv, row 6 (line 9): true_wind_speed_m_s")
+
+
+# ----------------------------------------------------------------------------- flights that never end, tracks
+def test_a_ball_looping_under_a_huge_lift_stops_with_a_warning_not_a_traceback(capsys):
+    """0.5 g, 0.4 m ball, CL 3 and no drag: lift ~2.3 kN on a 5 mN weight loops it on a ~2 mm circle."""
+    args = ["flight", "--ball", "custom", "--diameter-m", "0.4", "--mass-kg", "0.0005", "--speed-m-s", "100",
+            "--elevation-deg", "-89", "--spin-rpm", "20000", "--model", "constant", "--cd", "0", "--cl", "3", "--json"]
+    assert main(args) == 0
+    out = capsys.readouterr()
+    warnings = {w["code"]: w for w in json.loads(out.out)["warnings"]}
+    assert warnings["flight_stopped_unfinished"]["severity"] == "invalid"
+    assert "Traceback" not in out.err
+
+
+@pytest.mark.parametrize("change, message", [
+    ("header", "tracks file has no data rows under the header"),
+    ("x=1e300", "tracks file column x row 4 is 1e+300 m; x must be between -2000 and 2000 m"),
+    ("dt=1e-300", "observations 1e-300 s apart; at least 0.0001 s are needed"),
+    ("t=1e3", "t must be between -86400 and 86400 s"),
+    ("span", "spans 87 s; a tracked flight may span at most 60 s"),
+])
+def test_hostile_tracks_are_refused_with_the_cell(change, message):
+    import io
+
+    from liftcore import ballflight as bf
+
+    demo = bf.read_tracks(str(ROOT / "liftcore" / "data" / bf.DEMO_TRACKS_FILE))
+    first = demo.index[demo["flight"] == demo["flight"].iloc[0]]
+    d = demo.copy()
+    if change == "header":
+        text = b"flight,t,x,y,z\n"
+    else:
+        if change == "x=1e300":
+            d.loc[3, "x"] = 1e300
+        elif change == "dt=1e-300":
+            d.loc[first, "t"] = np.arange(first.size) * 1e-300
+        elif change == "t=1e3":
+            d.loc[first, "t"] = np.arange(first.size) * 1e3
+        else:
+            d.loc[first, "t"] = np.linspace(0.0, 87.0, first.size)
+        text = d.to_csv(index=False).encode()
+    with pytest.raises(InputError, match=message.replace("(", r"\(").replace("+", r"\+")):
+        bf.read_tracks(io.BytesIO(text))
+
+
+def test_an_outlier_in_the_tracks_gives_a_bounded_fit_and_says_it_is_doubtful():
+    from liftcore import ballflight as bf
+    from liftcore.air import air_state
+
+    a = air_state(0.0)
+    setup = bf.make_setup("golf", density_kg_m3=a.density_kg_m3, kinematic_viscosity_m2_s=a.kinematic_viscosity_m2_s,
+                          speed_of_sound_m_s=a.speed_of_sound_m_s)
+    demo = bf.read_tracks(str(ROOT / "liftcore" / "data" / bf.DEMO_TRACKS_FILE))
+    assert bf.fit_tracks(setup, demo, 3000.0).warnings() == ()
+    d = demo.copy()
+    d.loc[3, "z"] = 1999.0  # RuntimeWarnings (overflow) are errors in this suite (pytest.ini)
+    codes = {w.code for w in bf.fit_tracks(setup, d, 3000.0).warnings()}
+    assert "fit_misses_tracks" in codes

@@ -320,6 +320,8 @@ def _fit_tab(values):
     st.caption("± one standard deviation from the Jacobian at the solution (assumes independent, equal "
                f"noise on every coordinate); {fit.nfev:,} evaluations of the residuals, {fit.dof:,} degrees of freedom. "
                f"{fit.message}")
+    for w in fit.warnings():
+        st.warning(w.message, icon=":material/warning:")
     c1, c2 = st.columns(2)
     system = unit_system()
     with c1:

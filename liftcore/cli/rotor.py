@@ -169,7 +169,7 @@ def execute(args, progress):
         ("Apparent wind at mid-height", f"{one['apparent_wind_speed_m_s'] / KNOT_M_S:.2f} kn "
                                         f"({one['apparent_wind_speed_m_s']:.2f} m/s), "
                                         f"{one['apparent_wind_angle_deg']:+.1f} deg off the bow"),
-        ("Rotor", f"{state}, spin ratio {one['spin_ratio']:.3f}, {one['rpm']:.1f} rpm"),
+        ("Rotor", f"{state}, spin ratio {_spin_ratio_text(one['spin_ratio'])}, {one['rpm']:.1f} rpm"),
         ("Lift / drag coefficient", f"{one['lift_coefficient']:.3f} / {one['drag_coefficient']:.3f}"),
         ("Lift" + total, f"{one['lift_n'] / 1000:.2f} kN"),
         ("Drag" + total, f"{one['drag_n'] / 1000:.2f} kN"),
@@ -183,3 +183,8 @@ def execute(args, progress):
     rows.append(("Caution", "estimates for early design; rotor sails change stability, structure and "
                             "manoeuvring: defer to classification rules and a naval architect"))
     return data, text_table(rows)
+
+
+def _spin_ratio_text(sr) -> str:
+    """The spin ratio to three decimals; none in still air (omega R / 0)."""
+    return "none (still air)" if sr is None or not math.isfinite(sr) else f"{sr:.3f}"

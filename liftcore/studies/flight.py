@@ -412,6 +412,8 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     warnings = list(main.warnings)
     for w in air.warnings:
         warnings.append(replace(w, subject=""))
+    if fit is not None:
+        warnings.extend(fit.warnings())
     if setup.density_kg_m3 == 0.0:
         warnings.append(ModelWarning("vacuum", "air density 0: the flight is in vacuum (no drag, lift or "
                                      "spin decay)", ""))

@@ -382,6 +382,8 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     summary = vy.summarise(tally, ship, hours)
     if kind == "series":
         summary = replace(summary, warnings=summary.warnings + vy.series_warnings(tally))
+    elif kind == "weibull":
+        summary = replace(summary, warnings=summary.warnings + sectors.warnings())
     spread, spread_note = None, ""
     if spread_on:
         if progress:
