@@ -130,6 +130,22 @@ def coefficient_set_from_inputs(values: dict, coefficient_table=None) -> coef.Co
                                      label="Your own table")
 
 
+def check_inputs(values: dict) -> None:
+    """Refuse inputs whose own coefficient table (``user_coefficients_csv``, when the set chosen is
+    ``user``) cannot be read, so a scenario file is refused before it replaces what is on a page.
+
+    A table given apart from the inputs (an upload, not kept in scenario files) is checked when
+    the study runs.
+
+    Raises
+    ------
+    InputError
+        The table's own message (row, column, value, range).
+    """
+    if values.get("coefficient_set") == "user" and str(values.get("user_coefficients_csv", "")).strip():
+        coefficient_set_from_inputs(values)
+
+
 def setup_from_inputs(values: dict, coefficient_table=None) -> RotorSetup:
     """A :class:`RotorSetup` from validated rotor-study input values (core units).
 

@@ -294,10 +294,14 @@ def validate_inputs(kind: str, inputs, source: str = "scenario", where: str = "[
                              low_inclusive=not f.low_open, high_inclusive=not f.high_open)
             except InputError as exc:
                 raise InputError(key, f"{prefix}: {exc}") from None
+    check = getattr(study(kind), "check_inputs", None)  # what a study checks across its fields
     try:
-        return spec.validate(inputs)
+        values = spec.validate(inputs)
+        if check is not None:
+            check(values)
     except InputError as exc:
         raise InputError(exc.field, f"{prefix}: {exc}") from None
+    return values
 
 
 def _unit_system(doc: dict, source: str) -> str:

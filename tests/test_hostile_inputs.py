@@ -283,3 +283,15 @@ def test_an_outlier_in_the_tracks_gives_a_bounded_fit_and_says_it_is_doubtful():
     d.loc[3, "z"] = 1999.0  # RuntimeWarnings (overflow) are errors in this suite (pytest.ini)
     codes = {w.code for w in bf.fit_tracks(setup, d, 3000.0).warnings()}
     assert "fit_misses_tracks" in codes
+
+
+@pytest.mark.parametrize("kind", ["rotor", "voyage"])
+def test_a_scenario_choosing_a_bad_table_is_refused_when_read(kind):
+    from liftcore.scenario import Scenario, parse_document, scenario_to_toml
+
+    values = study(kind).INPUTS.defaults()
+    values.update(coefficient_set="user", user_coefficients_csv="SR,CL,CD\n0,0,0.5\n1,1e308,1\n2,3,1\n")
+    with pytest.raises(InputError, match=r"a.toml \[inputs\]: your coefficient table: CL must lie within ±100"):
+        parse_document(scenario_to_toml(Scenario(kind=kind, inputs=values, title="Invented")), "a.toml")
+    values["user_coefficients_csv"] = ""  # the table came from an upload, which files do not keep
+    assert parse_document(scenario_to_toml(Scenario(kind=kind, inputs=values, title="Invented")), "b.toml").kind == kind

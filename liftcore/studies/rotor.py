@@ -69,6 +69,9 @@ INPUTS = InputSpec(KIND, _CONDITION_FIELDS + rotor_inputs.ROTOR_FIELDS + air_inp
     "spin_rpm": lambda v: v["spin_mode"] == "rpm",
 })
 
+#: Checked when a scenario file or a comparison is read (before it replaces a page's inputs).
+check_inputs = rotor_inputs.check_inputs
+
 SOURCES = (
     "Apparent wind: vector triangle of ship speed and true wind (leeway and current neglected).",
     "Charnock, H. (1955). Wind stress on a water surface. Q. J. R. Meteorol. Soc. 81, 639-640.",

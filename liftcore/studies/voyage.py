@@ -134,6 +134,9 @@ INPUTS = InputSpec(KIND, _FIRST + tuple(rotor_inputs.ROTOR_FIELDS) + tuple(air_i
     "sweep_max_rotors": lambda v: v["sweep"],
 })
 
+#: Checked when a scenario file or a comparison is read (before it replaces a page's inputs).
+check_inputs = rotor_inputs.check_inputs
+
 SOURCES = (
     "IMO MEPC.308(73) (2018) and MEPC.364(79) (2022), Guidelines on the method of calculation of "
     "the attained EEDI for new ships: CO₂ conversion factors C_F (HFO 3.114, LFO 3.151, MDO/MGO "

@@ -3,8 +3,8 @@ range, and the handout right after a new title."""
 
 from __future__ import annotations
 
-from tests.browser.test_review import (VIEWPORT, download, no_exception, open_tools, set_number,
-                                       settle)
+from tests.browser.test_review import (VIEWPORT, download, no_exception, number_input, open_tools,
+                                       params_of, set_number, settle, upload)
 from tests.browser.conftest import wait_for_app
 
 
@@ -80,5 +80,34 @@ def test_the_handout_carries_the_title_just_typed(app_url, browser, tmp_path):
         target = tmp_path / "report.html"
         info.value.save_as(str(target))
         assert "Invented review case 7" in target.read_text(encoding="utf-8")
+    finally:
+        ctx.close()
+
+
+def test_a_scenario_with_a_bad_table_is_refused_and_keeps_what_was_typed(app_url, browser, tmp_path):
+    """A scenario file choosing its own coefficient table with CL = 1e308: one error naming the
+    row, and the page keeps the diameter typed before (it used to load the file first)."""
+    from liftcore.scenario import Scenario, scenario_to_toml
+    from liftcore.studies import study
+
+    values = study("rotor").INPUTS.defaults()
+    values.update(coefficient_set="user", diameter_m=3.0,
+                  user_coefficients_csv="SR,CL,CD\n0,0,0.5\n1,1e308,1\n2,3,1\n")
+    bad = tmp_path / "bad-table.toml"
+    bad.write_text(scenario_to_toml(Scenario(kind="rotor", inputs=values, title="Invented bad table")))
+    ctx = browser.new_context(viewport=VIEWPORT)
+    try:
+        page = ctx.new_page()
+        page.goto(f"{app_url}/rotor")
+        wait_for_app(page)
+        set_number(page, "Rotor diameter", "6")
+        open_tools(page)
+        upload(page, "Load a scenario file", bad)
+        no_exception(page)
+        alert = page.locator('[data-testid="stAlert"]', has_text="CL must lie within ±100").first
+        alert.wait_for(state="visible", timeout=30_000)
+        assert "data row 2" in alert.inner_text()
+        assert float(number_input(page, "Rotor diameter").input_value()) == 6.0
+        assert params_of(page).get("diameter_m") == "6"
     finally:
         ctx.close()
