@@ -119,7 +119,9 @@ def charnock_roughness_length(friction_velocity_m_s, charnock_constant=CHARNOCK_
        639-640.
     """
     u = np.asarray(friction_velocity_m_s, dtype=float)
-    return charnock_constant * u * u / G0
+    # a u*^2 / g underflows to 0 below u* ~ 1e-154 m/s: held at the smallest normal float (the
+    # wind there is ~0 either way) so that ln z - ln z0 stays finite
+    return np.maximum(charnock_constant * u * u / G0, np.finfo(float).tiny)
 
 
 def friction_velocity_charnock(speed_ref_m_s, height_ref_m, charnock_constant=CHARNOCK_SMITH_1988,
@@ -161,7 +163,7 @@ def friction_velocity_charnock(speed_ref_m_s, height_ref_m, charnock_constant=CH
     u = 0.035 * vv  # start near the neutral drag coefficient ~1.2e-3 (u*/U ~ 0.035)
     for _ in range(iterations):
         z0 = charnock_roughness_length(u, charnock_constant)
-        u = VON_KARMAN * vv / np.log(height_ref_m / z0)
+        u = VON_KARMAN * vv / (np.log(height_ref_m) - np.log(z0))
     return np.where(calm, 0.0, u)
 
 
@@ -193,7 +195,7 @@ def wind_speed_log_law(speed_ref_m_s, height_ref_m, height_m, charnock_constant=
     u = friction_velocity_charnock(v, height_ref_m, charnock_constant)
     z0 = charnock_roughness_length(np.where(u > 0, u, 1.0), charnock_constant)
     z = np.asarray(height_m, dtype=float)
-    return np.where(u > 0, u / VON_KARMAN * np.log(z / z0), 0.0 * z)
+    return np.where(u > 0, u / VON_KARMAN * (np.log(z) - np.log(z0)), 0.0 * z)
 
 
 #: Profile name -> function(speed_ref, height_ref, height, parameter).

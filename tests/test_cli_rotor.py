@@ -31,8 +31,7 @@ def run_json(capsys, *extra):
 
 
 def core(setup_kw=None, spin=None):
-    values = {"rotor_count": 1}
-    values.update(setup_kw or {})
+    values = dict(setup_kw or {})  # the command's defaults are the study's (two rotors)
     setup = rotor_inputs.setup_from_inputs(values)
     args = (setup, 12 * KNOT_M_S, 20 * KNOT_M_S, math.radians(90))
     return rotor.best_operation(*args) if spin is None else rotor.fixed_operation(*args, **spin)
@@ -71,7 +70,7 @@ def test_fixed_rpm_and_spin_ratio(capsys):
 
 
 def test_several_rotors_are_set_totals(capsys):
-    one = run_json(capsys, "--spin-ratio", "2")
+    one = run_json(capsys, "--spin-ratio", "2", "--rotors", "1")
     three = run_json(capsys, "--spin-ratio", "2", "--rotors", "3", "--rotor-spacing-m", "30")
     for key in ("lift_n", "thrust_n", "side_force_n", "heeling_moment_knm", "spin_power_kw"):
         assert_allclose(three[key], 3 * one[key], rtol=1e-12)

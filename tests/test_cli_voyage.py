@@ -120,7 +120,7 @@ def test_bad_tables_exit_2_with_one_line(capsys, tmp_path, body, message):
     (["--hours-at-sea", "6000"], "liftcore: give --ship-speed-kn (or --speed-profile) for a wind table or Weibull input"),
     (["--ship-speed-kn", "12"], "liftcore: give --hours-at-sea (hours at sea per year, 1 to 8760 h)"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "9000"],
-     "liftcore: hours-at-sea must be between 1 and 8760 h (got 9000 h)"),
+     "liftcore: --hours-at-sea: Hours at sea per year must be between 1 and 8760 h (got 9000 h)"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--max-rpm", "-3"],
      "liftcore: --max-rpm: Maximum rotor speed must be between 1 and 1000 rpm (got -3 rpm)"),
     (["--ship-speed-kn", "12", "--hours-at-sea", "6000", "--coefficients", "nothing"],

@@ -1,18 +1,110 @@
-"""Options shared by several commands (air state), and text formatting helpers."""
+"""Options shared by several commands (air state), options declared from a study's inputs, and
+text formatting helpers."""
 
 from __future__ import annotations
+
+from dataclasses import dataclass
 
 from liftcore.air import AirState, air_inputs, air_state
 from liftcore.errors import InputError, check_number
 
 
+# ----------------------------------------------------------------------------- options from the InputSpec
+@dataclass(frozen=True)
+class Option:
+    """A command-line option that sets one study input.
+
+    Type, choices, range and default come from the study's :class:`~liftcore.inputs.Field`, so
+    the command line, the page, scenario files and share links accept the same values; only the
+    option's name, its unit and the factor to the core unit are declared here.
+
+    ``scale``: core value = option value x scale (1852/3600 for knots, 1000 for kW).
+    ``unit``: the option's unit, shown in the help. ``text``: help text when the field's label
+    says too little on a command line. ``required``: the command needs it (no default).
+    """
+
+    key: str
+    name: str
+    unit: str = ""
+    scale: float = 1.0
+    text: str = ""
+    required: bool = False
+    #: What happens without the option, when that is not the field's default ("best spin").
+    without: str = ""
+
+    @property
+    def dest(self) -> str:
+        return self.name.lstrip("-").replace("-", "_")
+
+
+def _shown(x) -> str:
+    if isinstance(x, float) and x.is_integer() and abs(x) < 1e12:
+        return str(int(x))  # 2500000, not 2.5e+06
+    return f"{x:.6g}" if isinstance(x, float) else str(x)
+
+
+def option_help(option: Option, field) -> str:
+    """Help of ``option``: what it sets, its unit, the accepted range and the default, all from
+    the study's field (in the option's unit)."""
+    text = option.text or field.label[:1].lower() + field.label[1:]
+    unit = f" [{option.unit}]" if option.unit else ""
+    notes = []
+    if field.kind in ("number", "int") and field.low is not None and field.high is not None:
+        notes.append(f"{_shown(field.low / option.scale)} to {_shown(field.high / option.scale)}")
+    if option.required:
+        notes.append("required")
+    elif option.without:
+        notes.append(f"without it: {option.without}")
+    elif field.kind in ("number", "int"):
+        default = field.default / option.scale
+        notes.append(f"default {_shown(int(default) if field.kind == 'int' else default)}")
+    else:
+        notes.append(f"default {field.default}")
+    return f"{text}{unit} ({', '.join(notes)})".replace("%", "%%")
+
+
+def add_options(group, spec, options) -> None:
+    """Add ``options`` (:class:`Option`) to an argparse group, typed and explained by ``spec``."""
+    for o in options:
+        f = spec.field(o.key)
+        kw = {}
+        if f.kind == "int":
+            kw["type"] = int
+        elif f.kind == "number":
+            kw["type"] = float
+        elif f.kind == "choice":
+            kw["choices"] = f.choices
+        group.add_argument(o.name, dest=o.dest, required=o.required, help=option_help(o, f), **kw)
+
+
+def option_values(args, options) -> dict:
+    """The study inputs (core units) of the ``options`` given on the command line."""
+    out = {}
+    for o in options:
+        x = getattr(args, o.dest, None)
+        if x is not None:
+            out[o.key] = x * o.scale if isinstance(x, (int, float)) and o.scale != 1.0 else x
+    return out
+
+
+def option_names(options) -> dict:
+    """Study input key -> option name, for messages."""
+    return {o.key: o.name for o in options}
+
+
 def add_air_options(p, density: bool = True) -> None:
     """``--altitude-m`` or ``--temperature-c --pressure-pa --humidity-pct`` [or ``--density-kg-m3``]."""
     g = p.add_argument_group("air state (ISA at an altitude, or measured)")
-    g.add_argument("--altitude-m", type=float, help="ISA altitude above sea level [m] (default 0)")
-    g.add_argument("--temperature-c", type=float, help="measured air temperature [degC]")
-    g.add_argument("--pressure-pa", type=float, help="measured barometric pressure [Pa]")
-    g.add_argument("--humidity-pct", type=float, default=0.0, help="relative humidity [%%] (0-100)")
+
+    def span(key):  # the shared air field's range, in the option's unit
+        f, (_, offset) = AIR_FIELDS[key], _AIR_OPTION_UNITS[key]
+        return f"{_shown(f.low + offset)} to {_shown(f.high + offset)}"
+
+    g.add_argument("--altitude-m", type=float, help=f"ISA altitude above sea level [m] ({span('altitude_m')}, default 0)")
+    g.add_argument("--temperature-c", type=float, help=f"measured air temperature [degC] ({span('temperature_k')})")
+    g.add_argument("--pressure-pa", type=float, help=f"measured barometric pressure [Pa] ({span('pressure_pa')})")
+    g.add_argument("--humidity-pct", type=float, default=0.0,
+                   help=f"relative humidity [%%] ({span('relative_humidity_pct')}, default 0)")
     if density:
         g.add_argument("--density-kg-m3", type=float,
                        help="air density [kg/m3], overriding the air state (0 means vacuum where allowed)")

@@ -11,7 +11,8 @@ from pathlib import Path
 
 from liftcore import coefficients as coef
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import add_air_options, density_from_args, text_table, validate_inputs
+from liftcore.cli.common import (Option, add_air_options, add_options, density_from_args, option_names,
+                                 option_values, text_table, validate_inputs)
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError
 from liftcore.files import read_text
@@ -20,36 +21,82 @@ from liftcore.studies import rotor as study
 #: Largest coefficient CSV file read from the command line. [bytes]
 MAX_CSV_BYTES = 1_000_000
 
-#: option dest -> (study input key, factor from the option's unit to the core unit)
-_OPTIONS = {
-    "diameter_m": ("diameter_m", 1.0),
-    "height_m": ("height_m", 1.0),
-    "base_height_m": ("base_height_m", 1.0),
-    "end_plate_ratio": ("end_plate_ratio", 1.0),
-    "rotors": ("rotor_count", None),
-    "rotor_spacing_m": ("rotor_spacing_m", 1.0),
-    "first_rotor_x_m": ("first_rotor_x_m", 1.0),
-    "interaction_factor": ("interaction_factor", 1.0),
-    "heel_reference_depth_m": ("heel_reference_depth_m", 1.0),
-    "ship_speed_kn": ("ship_speed_m_s", KNOT_M_S),
-    "true_wind_speed_kn": ("true_wind_speed_m_s", KNOT_M_S),
-    "true_wind_angle_deg": ("true_wind_angle_deg", 1.0),
-    "spin_ratio": ("spin_ratio", 1.0),
-    "rpm": ("spin_rpm", 1.0),
-    "wind_profile": ("wind_profile", None),
-    "reference_height_m": ("reference_height_m", 1.0),
-    "power_law_exponent": ("power_law_exponent", 1.0),
-    "charnock_constant": ("charnock_constant", 1.0),
-    "strips": ("strips", None),
-    "max_rpm": ("max_rpm", 1.0),
-    "max_motor_power_kw": ("max_motor_power_w", 1000.0),
-    "max_heeling_moment_knm": ("max_heeling_moment_nm", 1000.0),
-    "max_spin_ratio": ("max_spin_ratio", 1.0),
-    "propulsive_efficiency": ("propulsive_efficiency", 1.0),
-    "electrical_efficiency": ("electrical_efficiency", 1.0),
-    "set_aspect_ratio": ("user_aspect_ratio", 1.0),
-    "set_end_plate_ratio": ("user_end_plate_ratio", 1.0),
-}
+KN = ("kn", KNOT_M_S)
+# Options of the rotor, its wind profile, the coefficient set's own geometry, the limits and the
+# efficiencies: the same names and units in ``liftcore rotor`` and ``liftcore voyage``.
+GEOMETRY_OPTIONS = (
+    Option("base_height_m", "--base-height-m", "m"),
+    Option("end_plate_ratio", "--end-plate-ratio", text="end-plate diameter / rotor diameter, 1 = none"),
+    Option("rotor_spacing_m", "--rotor-spacing-m", "m", text="fore-and-aft spacing between rotors"),
+    Option("first_rotor_x_m", "--first-rotor-x-m", "m", text="foremost rotor ahead of midships"),
+    Option("interaction_factor", "--interaction-factor",
+           text="multiplier on the forces of several rotors, assumed"),
+    Option("heel_reference_depth_m", "--heel-reference-depth-m", "m",
+           text="heeling moment about a point this far below the waterline"),
+)
+PROFILE_OPTIONS = (
+    Option("wind_profile", "--wind-profile"),
+    Option("reference_height_m", "--reference-height-m", "m", text="height of the given true wind"),
+    Option("power_law_exponent", "--power-law-exponent"),
+    Option("charnock_constant", "--charnock-constant", text="Charnock constant"),
+    Option("strips", "--strips"),
+)
+SET_OPTIONS = (
+    Option("user_aspect_ratio", "--set-aspect-ratio",
+           text="aspect ratio of the rotor a CSV set was measured on (0 = two-dimensional)"),
+    Option("user_end_plate_ratio", "--set-end-plate-ratio",
+           text="end-plate ratio of the rotor a CSV set was measured on"),
+)
+LIMIT_OPTIONS = (
+    Option("max_rpm", "--max-rpm", "rpm"),
+    Option("max_motor_power_w", "--max-motor-power-kw", "kW", 1000.0),
+    Option("max_heeling_moment_nm", "--max-heeling-moment-knm", "kN m", 1000.0),
+    Option("max_spin_ratio", "--max-spin-ratio", text="highest spin ratio the best spin may use"),
+    Option("propulsive_efficiency", "--propulsive-efficiency", text="thrust power / engine power"),
+    Option("electrical_efficiency", "--electrical-efficiency",
+           text="rotor shaft power / electric power drawn"),
+)
+SHARED_OPTIONS = GEOMETRY_OPTIONS + PROFILE_OPTIONS + SET_OPTIONS + LIMIT_OPTIONS
+ROTOR_OPTIONS = (
+    Option("diameter_m", "--diameter-m", "m", required=True),
+    Option("height_m", "--height-m", "m", required=True),
+    Option("rotor_count", "--rotors"),
+)
+CONDITION_OPTIONS = (
+    Option("ship_speed_m_s", "--ship-speed-kn", *KN, text="ship speed through the water", required=True),
+    Option("true_wind_speed_m_s", "--true-wind-speed-kn", *KN,
+           text="true wind speed at the reference height", required=True),
+    Option("true_wind_angle_deg", "--true-wind-angle-deg", "deg",
+           text="true wind angle off the bow, + from starboard", required=True),
+)
+SPIN_OPTIONS = (
+    Option("spin_ratio", "--spin-ratio", text="fixed spin ratio at mid-height", without="the best spin"),
+    Option("spin_rpm", "--rpm", "rpm", text="fixed rotor speed", without="the best spin"),
+)
+OPTIONS = ROTOR_OPTIONS + CONDITION_OPTIONS + SPIN_OPTIONS + SHARED_OPTIONS
+
+
+def add_coefficient_options(g) -> None:
+    """``--coefficients`` (a published set or a CSV file) and ``--no-aspect-ratio-correction``."""
+    g.add_argument("--coefficients", metavar="NAME|FILE.csv",
+                   help=f"coefficient set: one of {', '.join(coef.builtin_names())}, or a CSV file "
+                        f"with columns SR, CL, CD[, CP] (default {coef.DEFAULT_SET})")
+    g.add_argument("--no-aspect-ratio-correction", action="store_true",
+                   help="use the set's drag as measured, without moving its induced drag to this rotor")
+
+
+def coefficient_values(name: str | None) -> dict:
+    """The study inputs ``--coefficients`` stands for (a published set, or a CSV file read and
+    checked, naming the file)."""
+    if name is None or name in coef.builtin_names():
+        return {"coefficient_set": name or coef.DEFAULT_SET}
+    path = Path(name)
+    if path.suffix.lower() != ".csv" and not path.exists():
+        raise InputError("--coefficients", f"--coefficients must be one of "
+                                           f"{', '.join(coef.builtin_names())} or a .csv file (got {name!r})")
+    table = read_text(path, "--coefficients", MAX_CSV_BYTES)
+    coef.user_coefficient_set(table, source=f"--coefficients file {path.name}")  # check, naming the file
+    return {"coefficient_set": "user", "user_coefficients_csv": table}
 
 
 def add_parser(sub):
@@ -60,44 +107,16 @@ def add_parser(sub):
                     "limits is used. Angles off the bow: 0 head wind, +90 from starboard, -90 from "
                     "port. Estimates for early design: rotor sails change stability, structure and "
                     "manoeuvring; defer to classification rules and a naval architect.")
-    d = {f.key: f.default for f in study.INPUTS.fields}
-    g = p.add_argument_group("rotor")
-    g.add_argument("--diameter-m", type=float, required=True, help="rotor diameter [m]")
-    g.add_argument("--height-m", type=float, required=True, help="rotor height [m]")
-    g.add_argument("--base-height-m", type=float, help=f"rotor base above the waterline [m] (default {d['base_height_m']:g})")
-    g.add_argument("--end-plate-ratio", type=float, help=f"end-plate diameter / rotor diameter, 1 = none (default {d['end_plate_ratio']:g})")
-    g.add_argument("--rotors", type=int, default=1, help="number of rotors (default 1)")
-    g.add_argument("--rotor-spacing-m", type=float, help=f"fore-and-aft spacing between rotors [m] (default {d['rotor_spacing_m']:g})")
-    g.add_argument("--first-rotor-x-m", type=float, help=f"foremost rotor ahead of midships [m] (default {d['first_rotor_x_m']:g})")
-    g.add_argument("--interaction-factor", type=float, help="multiplier on the forces of several rotors, assumed (default 1)")
-    g.add_argument("--heel-reference-depth-m", type=float, help="heeling moment about a point this far below the waterline [m] (default 0)")
+    spec = study.INPUTS
+    add_options(p.add_argument_group("rotor"), spec, ROTOR_OPTIONS + GEOMETRY_OPTIONS)
     g = p.add_argument_group("ship and wind")
-    g.add_argument("--ship-speed-kn", type=float, required=True, help="ship speed through the water [kn]")
-    g.add_argument("--true-wind-speed-kn", type=float, required=True, help="true wind speed at the reference height [kn]")
-    g.add_argument("--true-wind-angle-deg", type=float, required=True, help="true wind angle off the bow [deg], + from starboard")
-    spin = g.add_mutually_exclusive_group()
-    spin.add_argument("--spin-ratio", type=float, help="fixed spin ratio at mid-height (default: best spin)")
-    spin.add_argument("--rpm", type=float, help="fixed rotor speed [rpm] (default: best spin)")
-    g = p.add_argument_group("wind profile")
-    g.add_argument("--wind-profile", choices=("uniform", "power", "log"), default="log", help="wind profile over the sea (default log)")
-    g.add_argument("--reference-height-m", type=float, help=f"height of the given true wind [m] (default {d['reference_height_m']:g})")
-    g.add_argument("--power-law-exponent", type=float, help=f"power-law exponent (default {d['power_law_exponent']:g})")
-    g.add_argument("--charnock-constant", type=float, help=f"Charnock constant (default {d['charnock_constant']:g})")
-    g.add_argument("--strips", type=int, help=f"strips along the rotor height (default {d['strips']})")
+    add_options(g, spec, CONDITION_OPTIONS)
+    add_options(g.add_mutually_exclusive_group(), spec, SPIN_OPTIONS)
+    add_options(p.add_argument_group("wind profile"), spec, PROFILE_OPTIONS)
     g = p.add_argument_group("coefficients")
-    g.add_argument("--coefficients", default=coef.DEFAULT_SET, metavar="NAME|FILE.csv",
-                   help=f"coefficient set: one of {', '.join(coef.builtin_names())}, or a CSV file "
-                        f"with columns SR, CL, CD[, CP] (default {coef.DEFAULT_SET})")
-    g.add_argument("--set-aspect-ratio", type=float, help="aspect ratio of the rotor a CSV set was measured on (0 = two-dimensional)")
-    g.add_argument("--set-end-plate-ratio", type=float, help="end-plate ratio of the rotor a CSV set was measured on (default 1)")
-    g.add_argument("--no-aspect-ratio-correction", action="store_true", help="use the set's drag as measured, without moving its induced drag to this rotor")
-    g = p.add_argument_group("limits and efficiencies")
-    g.add_argument("--max-rpm", type=float, help=f"maximum rotor speed [rpm] (default {d['max_rpm']:g})")
-    g.add_argument("--max-motor-power-kw", type=float, help=f"maximum motor power per rotor [kW] (default {d['max_motor_power_w'] / 1000:g})")
-    g.add_argument("--max-heeling-moment-knm", type=float, help=f"maximum heeling moment of all rotors [kN m] (default {d['max_heeling_moment_nm'] / 1000:g})")
-    g.add_argument("--max-spin-ratio", type=float, help=f"highest spin ratio the best spin may use (default {d['max_spin_ratio']:g})")
-    g.add_argument("--propulsive-efficiency", type=float, help=f"thrust power / engine power (default {d['propulsive_efficiency']:g})")
-    g.add_argument("--electrical-efficiency", type=float, help=f"rotor shaft power / electric power drawn (default {d['electrical_efficiency']:g})")
+    add_coefficient_options(g)
+    add_options(g, spec, SET_OPTIONS)
+    add_options(p.add_argument_group("limits and efficiencies"), spec, LIMIT_OPTIONS)
     add_air_options(p)
     add_json_flag(p)
     return p
@@ -105,33 +124,17 @@ def add_parser(sub):
 
 def values_from_args(args) -> tuple[dict, object]:
     """Validated study input values (core units) and a user table (or None) from the options."""
-    raw = {"spin_mode": "best", "wind_angle_reference": "relative"}
-    for dest, (key, factor) in _OPTIONS.items():
-        v = getattr(args, dest, None)
-        if v is None:
-            continue
-        raw[key] = v if factor is None else v * factor
+    raw = {"spin_mode": "best", "wind_angle_reference": "relative", **option_values(args, OPTIONS)}
     if args.spin_ratio is not None:
         raw["spin_mode"] = "spin_ratio"
     elif args.rpm is not None:
         raw["spin_mode"] = "rpm"
     if args.no_aspect_ratio_correction:
         raw["correct_aspect_ratio"] = False
-    option_of = {key: "--" + dest.replace("_", "-") for dest, (key, _) in _OPTIONS.items()}
-    values = validate_inputs(study.INPUTS, raw, option_of)
-    table = None
-    name = args.coefficients
-    if name in coef.builtin_names():
-        values["coefficient_set"] = name
-    else:
-        path = Path(name)
-        if path.suffix.lower() != ".csv" and not path.exists():
-            raise InputError("--coefficients", f"--coefficients must be one of "
-                                               f"{', '.join(coef.builtin_names())} or a .csv file (got {name!r})")
-        values["coefficient_set"] = "user"
-        table = read_text(path, "--coefficients", MAX_CSV_BYTES)
-        coef.user_coefficient_set(table, source=f"--coefficients file {path.name}")  # check, naming the file
-    return values, table
+    values = validate_inputs(study.INPUTS, raw, option_names(OPTIONS))
+    chosen = coefficient_values(args.coefficients)
+    values["coefficient_set"] = chosen["coefficient_set"]
+    return values, chosen.get("user_coefficients_csv")
 
 
 def execute(args, progress):
