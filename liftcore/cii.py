@@ -247,6 +247,7 @@ class CIIComparison:
     rating_after: str
 
     def as_json(self) -> dict:
+        """The command-line keys (:data:`JSON_KEYS`)."""
         return {"cii_ship_type": self.ship_type, "cii_capacity_t": self.capacity_t, "cii_year": self.year,
                 "cii_distance_nm": self.distance_nm, "cii_reference": self.reference,
                 "cii_required": self.required, "cii_boundaries": list(self.boundaries),
@@ -273,3 +274,9 @@ def compare(ship_type: str, capacity: float, year: int, distance_nm: float, co2_
                          reference_cii(ship_type, capacity), required_cii(ship_type, capacity, year),
                          tuple(float(b) for b in boundaries(ship_type, capacity, year)),
                          float(att[0]), float(att[1]), str(letters[0]), str(letters[1]))
+
+
+#: Keys of :meth:`CIIComparison.as_json` (null in a voyage without the ship's yearly fuel).
+JSON_KEYS = ("cii_ship_type", "cii_capacity_t", "cii_year", "cii_distance_nm", "cii_reference", "cii_required",
+             "cii_boundaries", "cii_attained_before", "cii_attained_after", "cii_rating_before",
+             "cii_rating_after")

@@ -223,3 +223,35 @@ def spread_bars(df, central_kg: float, system: str = "SI") -> go.Figure:
                   line_width=2)
     fig.update_yaxes(autorange="reversed", automargin=True)
     return finish(fig)
+
+
+#: Fill of the rating bands A (best) to E: light to dark grey with the letters written on them,
+#: so the chart reads without colour (the two points carry the palette's colours).
+_BAND_GREYS = ("#f2f2f2", "#dedede", "#c8c8c8", "#b0b0b0", "#969696")
+
+
+def cii_bands(c) -> go.Figure:
+    """The rating bands A-E of the year as a horizontal scale of carbon intensity, with the ship
+    without and with the rotors marked on it (``c``: a :class:`liftcore.cii.CIIComparison`)."""
+    from liftcore.cii import RATINGS
+
+    b = list(c.boundaries)
+    top = max(b[-1] * 1.25, c.attained_before * 1.1, c.attained_after * 1.1)
+    low = min(b[0] * 0.75, c.attained_before * 0.9, c.attained_after * 0.9)
+    edges = [low] + b + [top]
+    fig = base_figure(f"Carbon intensity rating {c.year}", "Attained CII [g CO₂ / (t·nm)]", height=260,
+                      subtitle=f"Bands from the required CII {c.required:.3g} (IMO G4); without and with the rotors")
+    for i, letter in enumerate(RATINGS):
+        fig.add_vrect(x0=edges[i], x1=edges[i + 1], fillcolor=_BAND_GREYS[i], line_width=0, layer="below",
+                      annotation_text=f"<b>{letter}</b>", annotation_position="top left",
+                      annotation_font_size=18)
+    for i, (name, x, letter) in enumerate((("Without rotors", c.attained_before, c.rating_before),
+                                           ("With rotors", c.attained_after, c.rating_after))):
+        fig.add_trace(go.Scatter(x=[x], y=[0.95 - 0.5 * i], mode="markers+text", name=name,
+                                 marker=dict(size=18, color=colour(i), symbol=("circle", "diamond")[i],
+                                             line=dict(width=2, color="#000000")),
+                                 text=[f"{x:.3g} ({letter})"], textposition="middle right",
+                                 hovertemplate=f"{name}: %{{x:.4g}} g CO₂/(t·nm), rated {letter}<extra></extra>"))
+    fig.update_yaxes(visible=False, range=[0.1, 1.5])
+    fig.update_xaxes(range=[low, top], showgrid=False)
+    return finish(fig)

@@ -352,7 +352,8 @@ def _summary_html(mod, result: StudyResult, system: str) -> str:
     """The study's sentence about the result (its ``summary``), where it has one."""
     if not callable(getattr(mod, "summary", None)):
         return ""
-    return f"<p class=\"lead\">{bold_html(mod.summary(result, system))}</p>"
+    text = mod.summary(result, system)
+    return f"<p class=\"lead\">{bold_html(text)}</p>" if text else ""
 
 
 def _figure_html(fig, div_id: str) -> str:

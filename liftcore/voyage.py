@@ -110,6 +110,8 @@ class ShipEconomics:
         Hours under way per year. [h]
     fuel_price_per_t, carbon_price_per_t_co2 : float
         Money per tonne of fuel and per tonne of CO2 (any currency, the same for all money).
+    carbon_covered_share : float
+        Share of the emissions the carbon price is paid on, 0 to 1. [-]
     installed_cost, upkeep_per_year : float
         Money to buy and fit the rotors, and to keep them running each year.
     discount_rate : float
@@ -119,11 +121,12 @@ class ShipEconomics:
     """
 
     sfoc_main_g_kwh: float = 175.0
-    sfoc_generator_g_kwh: float = 200.0
+    sfoc_generator_g_kwh: float = 205.0  # the voyage study's default (one value everywhere)
     fuel: str = "hfo"
     hours_at_sea_per_year: float = 6000.0
     fuel_price_per_t: float = 0.0
     carbon_price_per_t_co2: float = 0.0
+    carbon_covered_share: float = 1.0
     installed_cost: float = 0.0
     upkeep_per_year: float = 0.0
     discount_rate: float = 0.0
@@ -135,6 +138,7 @@ class ShipEconomics:
         check_number("generator SFOC", self.sfoc_generator_g_kwh, "g/kWh", low=100.0, high=400.0)
         check_number("hours at sea per year", self.hours_at_sea_per_year, "h", low=0.0, high=HOURS_PER_YEAR)
         check_number("discount rate", self.discount_rate, "", low=0.0, high=1.0)
+        check_number("share of CO2 under the allowance scheme", self.carbon_covered_share, "", low=0.0, high=1.0)
 
 
 def co2_from_fuel(fuel_mass, fuel: str):
@@ -837,7 +841,7 @@ def summarise(t: Tally, ship: ShipEconomics, hours_at_sea_per_year: float | None
                  - fuel_from_energy_kg(spin * sec, ship.sfoc_generator_g_kwh))
     co2 = float(co2_from_fuel(fuel, ship.fuel))
     fuel_cost = fuel / 1000.0 * ship.fuel_price_per_t
-    carbon_cost = co2 / 1000.0 * ship.carbon_price_per_t_co2
+    carbon_cost = co2 / 1000.0 * ship.carbon_price_per_t_co2 * ship.carbon_covered_share
     cost = fuel_cost + carbon_cost - ship.upkeep_per_year
     shares = np.clip(t.state / t.weight, 0.0, 1.0)  # sums of weights can overshoot 1 by round-off
     warnings = list(voyage_warnings(t))

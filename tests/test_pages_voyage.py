@@ -32,11 +32,11 @@ def test_page_renders_the_demo_with_every_chart():
     assert not at.exception
     assert at.title[0].value == "Voyage savings"
     assert shown(at) == expected({})
-    # rose, heat map, operating time; the design options only in their own tab
-    assert len(at.get("plotly_chart")) == 3
+    # the CII rating bands, rose, heat map, operating time; the design options only in their own tab
+    assert len(at.get("plotly_chart")) == 4
     at.session_state["voyage_tab"] = "Design options: which size, how many?"
     at.run()
-    assert not at.exception and len(at.get("plotly_chart")) == 2  # fuel and payback by option
+    assert not at.exception and len(at.get("plotly_chart")) == 3  # CII; fuel and payback by option
     assert any("invented demo" in w.value for w in at.warning)
 
 
@@ -58,8 +58,8 @@ def test_series_shows_monthly_and_leg_bars():
     assert at.toggle(key="w:voyage:hours_from_series:SI").value is True
     assert not [w for w in at.number_input if w.key == "w:voyage:ship_speed_m_s:SI"]
     assert shown(at) == expected({"wind_kind": "series", "sweep": False})
-    # rose, heat map, operating time, months, legs
-    assert len(at.get("plotly_chart")) == 5
+    # CII rating bands, rose, heat map, operating time, months, legs
+    assert len(at.get("plotly_chart")) == 6
 
 
 def test_marine_units_show_the_same_quantity_converted():
@@ -112,5 +112,5 @@ def test_headlines_carry_the_published_range_and_the_spread_tab_draws_it():
     assert fuel.spread_text("SI") in [c.value for c in at.caption]
     at.session_state["voyage_tab"] = "Across the published data"
     at.run()
-    assert not at.exception and len(at.get("plotly_chart")) == 1
+    assert not at.exception and len(at.get("plotly_chart")) == 2  # the CII bands and the spread
     assert len(at.dataframe) == 1 and len(at.dataframe[0].value) == 5

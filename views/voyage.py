@@ -10,7 +10,7 @@ from liftcore.errors import InputError
 from liftcore.studies import voyage as study
 from liftcore.files import csv_text
 from views.inputs import render_inputs, unit_system
-from views.results import (general_warnings, open_tab_only, run_for_page, show_figure,
+from views.results import (bold_html, general_warnings, open_tab_only, run_for_page, show_figure,
                            show_headlines, stop_for,
                            show_sources_and_cautions, show_warnings, study_figures, study_tables,
                            units_caption)
@@ -97,6 +97,18 @@ with c2:
                "electric power of the best spin at V_ref in each wind condition and W this trade's wind "
                "probabilities (not the IMO global matrix unless you upload it as a joint table).")
 figs = study_figures(study, result)
+if d.cii is not None:
+    c1, c2 = st.columns([2, 3])
+    with c1:
+        st.markdown("**Carbon intensity (IMO CII)**")
+        st.markdown(f"<p class='lc-summary-small'>{bold_html(study.cii_summary(result))}</p>",
+                    unsafe_allow_html=True)
+        st.caption(study.CII_CAUTION)
+    with c2:
+        show_figure(figs["Carbon intensity rating"], key="voyage:cii")
+else:
+    st.caption("No carbon intensity rating: enter the ship's fuel per year without rotors under "
+               "*Carbon intensity (IMO CII)* in the sidebar.")
 show_warnings(general_warnings(result), title="About the model and the data")
 
 

@@ -56,10 +56,19 @@ MONEY_OPTIONS = (
     Option("upkeep_per_year", "--upkeep", "money/year", text="money per year to keep the rotors running"),
     Option("discount_rate_pct", "--discount-rate-pct", "%", text="discount rate for the discounted payback"),
 )
+CII_OPTIONS = (
+    Option("cii_ship_type", "--ship-type", text="ship type of the IMO carbon intensity rating"),
+    Option("cii_capacity_t", "--capacity-t", "t", text="deadweight, or gross tonnage for the types rated on it"),
+    Option("cii_year", "--cii-year", text="year rated (sets the reduction factor)"),
+    Option("annual_fuel_kg", "--annual-fuel-t", "t", 1000.0,
+           text="the ship's fuel per year without rotors", without="no CII"),
+    Option("carbon_covered_pct", "--carbon-covered-pct", "%",
+           text="share of CO2 the carbon price is paid on"),
+)
 SWEEP_OPTIONS = (
     Option("sweep_max_rotors", "--sweep-max-rotors", text="most rotors in the comparison"),
 )
-OPTIONS = SHIP_OPTIONS + COURSE_OPTIONS + MONEY_OPTIONS + SWEEP_OPTIONS + SHARED_OPTIONS
+OPTIONS = SHIP_OPTIONS + COURSE_OPTIONS + MONEY_OPTIONS + CII_OPTIONS + SWEEP_OPTIONS + SHARED_OPTIONS
 #: Largest coefficient CSV file read from the command line. [bytes]
 MAX_CSV_BYTES = 1_000_000
 
@@ -88,6 +97,7 @@ def add_parser(sub):
     w.add_argument("--one-way", action="store_true",
                    help="--weibull: the course only (default: half the time on the reciprocal)")
     add_options(p.add_argument_group("money"), spec, MONEY_OPTIONS)
+    add_options(p.add_argument_group("carbon intensity (IMO CII; with --annual-fuel-t)"), spec, CII_OPTIONS)
     c = p.add_argument_group("computation")
     c.add_argument("--dask-scheduler", metavar="ADDR",
                    help="run a series on this Dask scheduler (tcp://host:8786, workers must read "
@@ -115,8 +125,9 @@ def values_from_args(args) -> tuple[dict, str]:
     if not path.strip():
         option = {"table": "--wind-table", "weibull": "--weibull", "series": "--wind-series"}[kind]
         raise InputError(option, f"{option} needs a file name (got an empty one)")
+    # No CII for a ship whose fuel is not given (the page's demo ship is invented)
     v = {"wind_kind": kind, "sweep": bool(args.sweep), "published_spread": not args.no_spread,
-         **option_values(args, OPTIONS)}
+         "annual_fuel_kg": 0.0, **option_values(args, OPTIONS)}
     if args.no_aspect_ratio_correction:
         v["correct_aspect_ratio"] = False
     if args.coefficients:
@@ -161,6 +172,10 @@ def execute(args, progress):
     rows += [("Wind", f"{result.detail.wind_source} ({result.detail.conditions:,} "
                       f"{'rows' if result.detail.wind_kind == 'series' else 'conditions'}, "
                       f"computed {result.detail.engine})")]
+    sentence = study.cii_sentence(result.detail)
+    rows += [("Carbon intensity", sentence.replace("**", "") + " " + study.CII_CAUTION) if sentence else
+             ("Note", "no carbon intensity rating: give --annual-fuel-t (the ship's fuel per year "
+                      "without rotors) with --ship-type and --capacity-t")]
     rows += [("Warning", w.message) for w in result.warnings]
     return data, text_table(rows)
 

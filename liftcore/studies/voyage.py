@@ -22,7 +22,7 @@ import pandas as pd
 
 from liftcore import coefficients as coef
 from liftcore import figures_voyage as fv
-from liftcore import rotor, windstats
+from liftcore import cii, rotor, windstats
 from liftcore import rotor_inputs
 from liftcore import voyage as vy
 from liftcore.air import air_inputs
@@ -55,6 +55,7 @@ _W = "Wind on the trade"
 _S = "Ship and trade"
 _M = "Money"
 _I = "IMO wind-propulsion term"
+_C = "Carbon intensity (IMO CII)"
 _D = "Design options"
 
 VOYAGE_FIELDS = (
@@ -105,6 +106,22 @@ VOYAGE_FIELDS = (
            step=1000.0, help="Maintenance and running costs of the rotors each year."),
     number("discount_rate_pct", "Discount rate", "percent", 8.0, 0.0, 50.0, section=_M, step=0.5,
            help="For the discounted payback; 0 gives the simple payback."),
+    number("carbon_covered_pct", "Share of CO₂ under the allowance scheme", "percent", 100.0, 0.0, 100.0,
+           section=_M, step=5.0, help="Share of the ship's emissions the carbon price is paid on (a "
+                                      "scheme may cover part of a trade's voyages); 100 = all."),
+    choice("cii_ship_type", "Ship type (IMO CII)", cii.SHIP_TYPE_KEYS, default="bulk_carrier",
+           labels=tuple(cii.SHIP_TYPES[k].label for k in cii.SHIP_TYPE_KEYS), section=_C,
+           help="Sets the reference line and the rating boundaries (MEPC.353(78), MEPC.354(78))."),
+    number("cii_capacity_t", "Capacity for the CII (DWT or GT, as the type takes)", "ratio", 60000.0, 1.0,
+           cii.MAX_CAPACITY_T, section=_C, step=1000.0,
+           help="Deadweight in tonnes for cargo ships and tankers; gross tonnage for cruise, "
+                "ro-ro passenger ships and vehicle carriers (MEPC.352(78)). The demo value is invented."),
+    integer("cii_year", "Year rated", 2026, 2023, 2030, section=_C,
+            help="Sets the reduction factor below the 2019 reference line (MEPC.338(76), MEPC.400(83))."),
+    number("annual_fuel_kg", "The ship's fuel per year without rotors (0 = no CII)", "fuel_mass", 6.0e6,
+           0.0, 1.0e9, section=_C, step=100e3,
+           help="All fuel of the year, main engine and generators, of the fuel chosen above. The "
+                "demo value is invented."),
     number("reference_speed_m_s", "Reference speed V_ref (0 = service speed)", "ship_speed", 0.0,
            0.0, 30.0 * KNOT_M_S, section=_I, advanced=True, step=0.1,
            help="Ship speed of the IMO term (MEPC.1/Circ.896); 0 takes the service speed."),
@@ -181,6 +198,11 @@ class VoyageDetail:
     #: The year with every published set and spin-power estimate (:func:`published_spread`).
     spread: pd.DataFrame | None = None
     spread_note: str = ""
+    #: The year's carbon intensity without and with the rotors (None without the ship's fuel).
+    cii: cii.CIIComparison | None = None
+    #: Carbon cost of the year without and with the rotors (None without the ship's fuel).
+    carbon_cost_before: float | None = None
+    carbon_cost_after: float | None = None
 
 
 def economics_from_values(values: dict) -> vy.ShipEconomics:
@@ -190,6 +212,7 @@ def economics_from_values(values: dict) -> vy.ShipEconomics:
         fuel=values["fuel"], hours_at_sea_per_year=values["hours_at_sea_h"],
         fuel_price_per_t=values["fuel_price_per_t"],
         carbon_price_per_t_co2=values["carbon_price_per_t_co2"],
+        carbon_covered_share=values["carbon_covered_pct"] / 100.0,
         installed_cost=values["installed_cost"], upkeep_per_year=values["upkeep_per_year"],
         discount_rate=values["discount_rate_pct"] / 100.0, main_engine_power_w=me if me > 0 else None)
 
@@ -439,13 +462,79 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     if progress:
         progress(1.0, "Done")
 
+    intensity, cost_before, cost_after = carbon_intensity(values, summary, ship)
+    if intensity is not None and intensity.attained_after <= 0:
+        summary = replace(summary, warnings=summary.warnings + (ModelWarning(
+            "fuel_saved_above_fuel_burnt", "the rotors save as much fuel as the ship burns in the year "
+            "entered: check the ship's fuel per year", "annual_fuel_saved", "invalid"),))
     detail = VoyageDetail(summary=summary, tally=tally, wind_kind=kind, wind_source=label,
                           conditions=int(n_conditions), engine=engine, hours_source=hours_source,
                           imo_effective_power_w=imo_kw * 1000.0, imo_reference_speed_m_s=float(v_ref),
                           sweep=sweep_df, sweep_note=sweep_note.strip(),
                           coefficient_set=setup.coefficients.describe(), spread=spread,
-                          spread_note=spread_note)
+                          spread_note=spread_note, cii=intensity, carbon_cost_before=cost_before,
+                          carbon_cost_after=cost_after)
     return _result(values, detail)
+
+
+def carbon_intensity(values: dict, summary: vy.VoyageSummary, ship: vy.ShipEconomics):
+    """The year's CII without and with the rotors, and its carbon cost either way.
+
+    Parameters
+    ----------
+    values : dict
+        Validated voyage inputs (``annual_fuel_kg`` the ship's fuel of the year without rotors,
+        ``cii_*`` the ship type, capacity and year).
+    summary : VoyageSummary
+        The rotors' year (fuel and CO2 saved, mean speed, hours at sea).
+    ship : ShipEconomics
+        Fuel (CO2 factor), carbon price and the share of CO2 it is paid on.
+
+    Returns
+    -------
+    tuple
+        (:class:`liftcore.cii.CIIComparison` or None, carbon cost before, after [money]); None
+        throughout when no yearly fuel is given.
+
+    Notes
+    -----
+    Distance D = mean speed at sea x hours at sea / 1852 [nm]; CO2 before = fuel x CF, after =
+    before - CO2 avoided by the rotors; carbon cost = CO2 x price x covered share.
+
+    References
+    ----------
+    .. [1] IMO Resolution MEPC.352(78) (2022), G1; see :mod:`liftcore.cii` for G2-G4.
+    """
+    fuel_kg = values["annual_fuel_kg"]
+    if fuel_kg <= 0:
+        return None, None, None
+    distance_nm = summary.mean_ship_speed_m_s * summary.hours_at_sea_per_year * 3600.0 / 1852.0
+    before_t = float(vy.co2_from_fuel(fuel_kg, ship.fuel)) / 1000.0
+    after_t = max(before_t - summary.annual_co2_avoided_kg / 1000.0, 0.0)
+    comparison = cii.compare(values["cii_ship_type"], values["cii_capacity_t"], values["cii_year"],
+                             distance_nm, before_t, after_t)
+    rate = ship.carbon_price_per_t_co2 * ship.carbon_covered_share
+    return comparison, before_t * rate, after_t * rate
+
+
+#: Said wherever the CII is shown: what the rating rests on and whose it is.
+CII_CAUTION = ("Reference lines, reduction factors and rating boundaries of IMO MEPC.353(78), "
+               "MEPC.338(76)/MEPC.400(83) and MEPC.354(78) (the tables' values from memory: check them "
+               "against the resolutions). An estimate from the fuel entered: the statutory rating is "
+               "the flag State's, on verified fuel data and with the corrections of MEPC.355(78).")
+
+
+def cii_sentence(d: VoyageDetail) -> str:
+    """One sentence with the year's carbon intensity and rating without and with the rotors
+    (``**`` marks the numbers), or "" without the ship's fuel."""
+    c = d.cii
+    if c is None:
+        return ""
+    kind = cii.SHIP_TYPES[c.ship_type]
+    return (f"Carbon intensity in {c.year} ({kind.label.lower()}, {c.capacity_t:,.0f} {kind.capacity}, "
+            f"{c.distance_nm:,.0f} nm a year): **{c.attained_before:.3g}** g CO₂/(t·nm), rated "
+            f"**{c.rating_before}**, without the rotors; **{c.attained_after:.3g}**, rated "
+            f"**{c.rating_after}**, with them (required {c.required:.3g}).")
 
 
 def _result(values: dict, d: VoyageDetail) -> StudyResult:
@@ -510,6 +599,8 @@ def _result(values: dict, d: VoyageDetail) -> StudyResult:
         "annual_fuel_saved_t_range": _json_range(spread["annual_fuel_saved"], 1e-3),
         "annual_co2_avoided_t_range": _json_range(spread["annual_co2_avoided"], 1e-3),
         "mean_net_power_kw_range": _json_range(spread["mean_net_power"], 1e-3),
+        **(d.cii.as_json() if d.cii is not None else dict.fromkeys(cii.JSON_KEYS)),
+        "annual_carbon_cost_before": d.carbon_cost_before, "annual_carbon_cost_after": d.carbon_cost_after,
         "warnings": [w.as_dict() for w in warnings],
     })
     return StudyResult(kind=KIND, inputs=dict(values), headlines=tuple(heads), warnings=tuple(warnings),
@@ -533,6 +624,8 @@ def figures(d: VoyageDetail, values: dict, system: str = "SI") -> Charts:
     if d.spread is not None:
         out.append(("Across the published data",
                     lambda: fv.spread_bars(d.spread, d.summary.annual_fuel_saved_kg, system)))
+    if d.cii is not None:
+        out.append(("Carbon intensity rating", lambda: fv.cii_bands(d.cii)))
     if d.wind_kind == "series":
         out.append(("By month", lambda: fv.month_bars(vy.month_table(t, d.summary.hours_at_sea_per_year), system)))
         legs = vy.leg_table(t, d.summary.hours_at_sea_per_year)
@@ -638,6 +731,24 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
         out[name] = table_in_units(df, kinds, system).rename(
             columns=lambda c: (f"{c} [{currency}]" if c in money_cols and currency else c).replace("co2", "CO₂"))
     return out
+
+
+def summary(result: StudyResult, system: str = "SI") -> str:
+    """The sentence the handout leads its results with: the carbon intensity and its rating
+    without and with the rotors, with what the rating rests on ("" without the ship's fuel)."""
+    body = cii_summary(result)
+    return f"{body} {CII_CAUTION}" if body else ""
+
+
+def cii_summary(result: StudyResult) -> str:
+    """:func:`cii_sentence` and the carbon cost of the year without and with the rotors."""
+    sentence = cii_sentence(result.detail)
+    d = result.detail
+    if sentence and d.carbon_cost_before:
+        cur = result.inputs.get("currency", "")
+        sentence += (f" Carbon cost of the year: **{d.carbon_cost_before:,.0f} {cur}** without the rotors, "
+                     f"**{d.carbon_cost_after:,.0f} {cur}** with them.")
+    return sentence
 
 
 def data_note(result: StudyResult) -> str:
