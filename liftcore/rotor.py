@@ -47,11 +47,13 @@ head wind a stopped rotor costs power). A rotor is never reported running at a n
 from __future__ import annotations
 
 import math
+from typing import Any
 from dataclasses import dataclass
 
 import numpy as np
 
 from liftcore import coefficients as coef
+from liftcore import hull as hull_model
 from liftcore import wind
 from liftcore.errors import InputError, check_choice, check_number, check_positive
 from liftcore.validity import ModelWarning, quantity_warning
@@ -135,6 +137,8 @@ class RotorSetup:
     heel_reference_depth_m: float = 0.0
     min_gain_w: float = 0.0
     spin_power_model: str = "set"
+    #: The hull that answers the side force (leeway and rudder); None: the balance is left out.
+    hull: Any = None
 
     def __post_init__(self):
         check_positive("rotor diameter", self.diameter_m, "m")
@@ -171,6 +175,12 @@ class RotorSetup:
                                                 f"{self.rotor_count} rotors (got {self.rotor_spacing_m:g} m)")
 
     # --- derived geometry
+    @property
+    def hull_resistance_coefficient(self) -> float:
+        """C of the resistance leeway and rudder add, R = C Y^2 / U^2, with the side force at the
+        rotors' mean position (:meth:`liftcore.hull.Hull.resistance_coefficient`)."""
+        return self.hull.resistance_coefficient(float(np.mean(self.rotor_positions_m)))
+
     @property
     def radius_m(self) -> float:
         return 0.5 * self.diameter_m
@@ -284,6 +294,11 @@ class Operation:
     #: the set has none) and from the skin-friction model: the two estimates side by side.
     spin_power_set_w: np.ndarray | None = None
     spin_power_friction_w: np.ndarray | None = None
+    #: With a hull: power lost to leeway and rudder (subtracted from the net gain), leeway (+: the
+    #: ship slides to starboard) and rudder angle (+: the rudder's force to starboard).
+    balance_power_w: np.ndarray | None = None
+    leeway_deg: np.ndarray | None = None
+    rudder_angle_deg: np.ndarray | None = None
 
     def at(self, index) -> dict:
         """The results of one condition as a dict of floats (plus ``warnings``)."""
@@ -436,9 +451,18 @@ def _evaluate(setup: RotorSetup, w: _Wind, omega, full: bool = True) -> dict:
     k = setup.force_factor
     net = k * thrust * w.ship / setup.propulsive_efficiency - setup.rotor_count * power / setup.electrical_efficiency
     out = {"thrust": k * thrust, "heel": k * heel, "power1": power, "net": net}
+    side = None
+    if setup.hull is not None or full:
+        side = k * (_sum(cl, side_l) + _sum(cd, side_d))
+    if setup.hull is not None:
+        # leeway and rudder: R = C Y^2 / U^2, its power R U through the propulsive efficiency
+        c = setup.hull_resistance_coefficient
+        u = np.where(w.ship >= hull_model.MIN_SPEED_M_S, w.ship, np.inf)
+        out["balance"] = c * side * side / u / setup.propulsive_efficiency
+        out["net"] = net - out["balance"]
     if full:
         lift1, drag1 = _sum(cl, w.qa), _sum(cd, w.qa)
-        out.update(side=k * (_sum(cl, side_l) + _sum(cd, side_d)), lift=k * lift1, drag=k * drag1,
+        out.update(side=side, lift=k * lift1, drag=k * drag1,
                    lift1=lift1, drag1=drag1, power_set1=from_set, power_friction1=friction, sr_strip=sr)
     return out
 
@@ -790,7 +814,17 @@ def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape
         spin_ratio_span_max=shaped(np.where(running, sr_strip.max(axis=-1), 0.0)),
         spin_power_set_w=None if res["power_set1"] is None else shaped(setup.rotor_count * res["power_set1"]),
         spin_power_friction_w=shaped(setup.rotor_count * res["power_friction1"]),
+        **_balance_fields(setup, res, w, x_mean, shaped),
     )
+
+
+def _balance_fields(setup: RotorSetup, res: dict, w, x_mean: float, shaped) -> dict:
+    """The operating point's leeway, rudder angle and balance power (empty without a hull)."""
+    if setup.hull is None:
+        return {}
+    b = setup.hull.balance(res["side"], x_mean, w.ship)
+    return {"balance_power_w": shaped(res["balance"]), "leeway_deg": shaped(b["leeway_deg"]),
+            "rudder_angle_deg": shaped(b["rudder_angle_deg"])}
 
 
 

@@ -94,6 +94,30 @@ ROTOR_FIELDS: tuple[Field, ...] = (
            1.0, section="Efficiencies", step=0.01,
            help="Rotor shaft power / electric power drawn from the ship's plant; about 0.85 to "
                 "0.95 for motor plus converter (common practice)."),
+    flag("hull_balance", "Count the hull's answer to the side force", True, section="Hull",
+         help="The hull holds the rotors' side force by sailing with leeway and the rudder holds "
+              "the yaw moment; the resistance they add is taken off the net gain and the best spin "
+              "allows for it (linear theory: Clarke et al. 1983, Fujii & Tsuda 1961)."),
+    number("hull_length_m", "Length between perpendiculars", "length", 180.0, 20.0, 500.0, section="Hull",
+           help="L of the ship (the demo ship is invented)."),
+    number("hull_beam_m", "Beam", "length", 30.0, 3.0, 80.0, section="Hull"),
+    number("hull_draught_m", "Draught", "length", 11.0, 1.0, 30.0, section="Hull",
+           help="Mean draught of the loading condition."),
+    number("block_coefficient", "Block coefficient", "ratio", 0.80, 0.35, 0.9, section="Hull", step=0.01,
+           help="Displaced volume / (L B T)."),
+    number("rudder_area_m2", "Rudder area", "area", 45.0, 0.5, 300.0, section="Hull", step=1.0,
+           help="Lateral area of the movable rudder (often 1.5 to 2 % of L T, common practice)."),
+    number("rudder_x_m", "Rudder position, forward of midships", "length", -88.0, -350.0, 0.0,
+           section="Hull", help="Negative: aft of midships; about -L/2 (between -0.7 L and -0.3 L)."),
+    number("rudder_aspect_ratio", "Rudder aspect ratio", "ratio", 1.6, 0.5, 4.0, section="Hull", step=0.1,
+           advanced=True, help="Span² / area; up to twice the geometric value when the rudder meets "
+                               "the hull (common practice)."),
+    number("displacement_kg", "Displacement (0 = from C_b L B T)", "fuel_mass", 0.0, 0.0, 1.0e9,
+           section="Hull", step=1.0e6, help="For the heel angle; 0 takes C_b L B T × 1025 kg/m³."),
+    number("metacentric_height_m", "Metacentric height GM (0 = no heel angle)", "length", 2.5, 0.0, 20.0,
+           section="Hull", step=0.1,
+           help="Fluid GM of the loading condition, from the stability booklet. The heel angle is "
+                "small-angle statics in a steady wind: gusts, free surface and the booklet govern."),
     number("heel_reference_depth_m", "Heel taken about a point below the waterline", "length",
            0.0, 0.0, 30.0, section="Model details", advanced=True,
            help="Depth below the waterline of the point the heeling moment is taken about: 0 = "
@@ -113,7 +137,28 @@ ROTOR_SHOW_IF = {
     "user_coefficients_csv": lambda v: v["coefficient_set"] == "user",
     "user_aspect_ratio": lambda v: v["coefficient_set"] == "user",
     "user_end_plate_ratio": lambda v: v["coefficient_set"] == "user",
+    **{k: (lambda v: v["hull_balance"]) for k in ("hull_length_m", "hull_beam_m", "hull_draught_m",
+                                                   "block_coefficient", "rudder_area_m2", "rudder_x_m",
+                                                   "rudder_aspect_ratio", "displacement_kg",
+                                                   "metacentric_height_m")},
 }
+
+
+def hull_from_inputs(values: dict):
+    """The :class:`liftcore.hull.Hull` the inputs describe, or None when the balance is off."""
+    from liftcore.hull import Hull
+
+    if not values.get("hull_balance", False):
+        return None
+    hull = Hull(length_m=float(values["hull_length_m"]), beam_m=float(values["hull_beam_m"]),
+                draught_m=float(values["hull_draught_m"]), block_coefficient=float(values["block_coefficient"]),
+                rudder_area_m2=float(values["rudder_area_m2"]), rudder_x_m=float(values["rudder_x_m"]),
+                rudder_aspect_ratio=float(values["rudder_aspect_ratio"]))
+    gm = float(values["metacentric_height_m"]) or None
+    disp = float(values["displacement_kg"]) or hull.displacement_from_form_kg
+    from dataclasses import replace
+
+    return replace(hull, displacement_kg=disp, metacentric_height_m=gm)
 
 
 def coefficient_set_from_inputs(values: dict, coefficient_table=None) -> coef.CoefficientSet:
@@ -174,6 +219,7 @@ def setup_from_inputs(values: dict, coefficient_table=None) -> RotorSetup:
         max_spin_ratio=float(v["max_spin_ratio"]), correct_aspect_ratio=bool(v["correct_aspect_ratio"]),
         first_rotor_x_m=float(v["first_rotor_x_m"]), rotor_spacing_m=float(v["rotor_spacing_m"]),
         heel_reference_depth_m=float(v["heel_reference_depth_m"]),
-        min_gain_w=float(v["min_worthwhile_gain_w"]), spin_power_model=v["spin_power_model"])
+        min_gain_w=float(v["min_worthwhile_gain_w"]), spin_power_model=v["spin_power_model"],
+        hull=hull_from_inputs(v))
 
 

@@ -181,6 +181,8 @@ def rotor_warnings(setup, w, omega, res, re, flags, mode: str, n: int) -> tuple:
     m = w.va_mid <= CALM_M_S
     if m.any():
         out.append(ModelWarning("calm", f"No apparent wind: no forces{_count(m, n)}.", "thrust_n"))
+    if setup.hull is not None:
+        out.extend(_hull_warnings(setup, w, res, n))
     turning = m & (np.asarray(omega) > 0)
     if turning.any():
         # spin ratio omega R / V has no value at V = 0 (null in JSON, "inf" in text)
@@ -191,3 +193,42 @@ def rotor_warnings(setup, w, omega, res, re, flags, mode: str, n: int) -> tuple:
                                 f"The rotor turns in still air{_count(turning, n)}: the spin ratio has "
                                 f"no value (no wind to divide by) and {what}.", "spin_ratio"))
     return tuple(out)
+
+
+def _hull_warnings(setup, w, res, n) -> list:
+    """Where the hull's linear balance or the small-angle heel leave their range."""
+    from liftcore import hull as hm
+
+    out = []
+    b = setup.hull.balance(res["side"], float(np.mean(setup.rotor_positions_m)), w.ship)
+    m = np.abs(b["leeway_deg"]) > hm.LEEWAY_LINEAR_DEG
+    if m.any():
+        out.append(ModelWarning("leeway_beyond_linear",
+                                f"Leeway up to {np.abs(b['leeway_deg'][m]).max():.1f}° exceeds "
+                                f"{hm.LEEWAY_LINEAR_DEG:g}° (common practice limit of linear hull "
+                                f"theory){_count(m, n)}: the lost power is underestimated there.",
+                                "balance_power_w"))
+    m = np.abs(b["rudder_angle_deg"]) > hm.RUDDER_LINEAR_DEG
+    if m.any():
+        out.append(ModelWarning("rudder_beyond_linear",
+                                f"Rudder angle up to {np.abs(b['rudder_angle_deg'][m]).max():.1f}° exceeds "
+                                f"{hm.RUDDER_LINEAR_DEG:g}° (common practice limit of linear rudder "
+                                f"lift){_count(m, n)}: little rudder is left for steering.",
+                                "balance_power_w"))
+    slow = (w.ship < hm.MIN_SPEED_M_S) & (np.abs(res["side"]) > 0)
+    if slow.any():
+        out.append(ModelWarning("no_balance_at_rest", f"Below {hm.MIN_SPEED_M_S:g} m/s the ship makes no way: "
+                                f"no leeway or rudder balance is counted{_count(slow, n)}.", "balance_power_w"))
+    heel = setup.hull.heel_angle_deg(res["heel"])
+    if heel is not None:
+        big = ~np.isfinite(heel) | (np.abs(heel) > hm.HEEL_SMALL_ANGLE_DEG)
+        if big.any():
+            out.append(ModelWarning("heel_beyond_small_angle",
+                                    f"Heel beyond {hm.HEEL_SMALL_ANGLE_DEG:g}° from the rotors' steady "
+                                    f"moment{_count(big, n)}: small-angle statics no longer holds; use the "
+                                    "ship's GZ curve and stability booklet.", "heeling_moment_nm", "invalid"))
+        out.append(ModelWarning("heel_caution",
+                                "Heel angle from small-angle statics in a steady wind (GZ = GM sin φ): gusts, "
+                                "free surface and the stability booklet govern; defer to the naval "
+                                "architect and the classification society.", "heeling_moment_nm"))
+    return out

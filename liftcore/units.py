@@ -44,6 +44,7 @@ DISPLAY = {
     "time":          ("s",          "s",            "s"),
     "duration":      ("h",          "h",            "h"),
     "circulation":   ("m^2/s",      "m^2/s",        "ft^2/s"),
+    "area":          ("m^2",        "m^2",          "ft^2"),
     "force_per_span": ("N/m",       "N/m",          "lbf/ft"),
     "fuel_rate":     ("g/kWh",      "g/kWh",        "g/kWh"),
     "money":         ("",           "",             ""),
@@ -59,7 +60,7 @@ CORE = {
     "large_force": "N", "moment": "N*m", "power": "W", "energy": "J", "mass": "kg",
     "small_mass": "kg", "fuel_mass": "kg", "temperature": "K", "pressure": "Pa",
     "density": "kg/m^3", "altitude": "m", "angle": "deg", "rotation": "rpm", "time": "s",
-    "duration": "h", "circulation": "m^2/s", "force_per_span": "N/m", "fuel_rate": "g/kWh",
+    "duration": "h", "circulation": "m^2/s", "area": "m^2", "force_per_span": "N/m", "fuel_rate": "g/kWh",
     "money": "", "money_rate": "1/t", "percent": "percent", "ratio": "",
 }
 # Angles, rotation rates, durations and fuel rates are kept in the units people enter them in
@@ -72,7 +73,7 @@ LABELS = {
     "hp": "hp", "MWh": "MWh", "kg": "kg", "lb": "lb", "g": "g", "oz": "oz", "t": "t",
     "short_ton": "US ton", "degC": "°C", "degF": "°F", "hPa": "hPa", "inHg": "inHg",
     "kg/m^3": "kg/m³", "lb/ft^3": "lb/ft³", "deg": "°", "rpm": "rpm", "s": "s", "h": "h",
-    "m^2/s": "m²/s", "ft^2/s": "ft²/s", "N/m": "N/m", "lbf/ft": "lbf/ft", "g/kWh": "g/kWh",
+    "m^2/s": "m²/s", "ft^2/s": "ft²/s", "m^2": "m²", "ft^2": "ft²", "N/m": "N/m", "lbf/ft": "lbf/ft", "g/kWh": "g/kWh",
     "1/t": "per t", "percent": "%",
 }
 

@@ -81,7 +81,7 @@ FLAG_BITS = 8
 
 #: Weighted sums every tally keeps, in this order.
 SUM_KEYS = ("net_power_w", "thrust_n", "spin_power_w", "engine_power_saved_w", "side_force_n",
-            "heeling_moment_nm", "ship_speed_m_s", "true_wind_speed_m_s")
+            "heeling_moment_nm", "ship_speed_m_s", "true_wind_speed_m_s", "balance_power_w")
 _S = {k: i for i, k in enumerate(SUM_KEYS)}
 #: Per-month and per-leg sums: weight, net power, engine power saved, spin power.
 _PART_KEYS = ("weight", "net_power_w", "engine_power_saved_w", "spin_power_w")
@@ -335,7 +335,8 @@ def operation_arrays(op, n: int) -> dict:
     """The per-condition arrays voyage needs from an operation result (dict or dataclass).
 
     * engine power saved: ``propulsion_power_saved_w`` (thrust x ship speed / propulsive
-      efficiency) when given, else ``engine_power_saved_w``, else net power + spin power;
+      efficiency) less ``balance_power_w`` (the leeway and rudder resistance, 0 without a hull)
+      when given, else ``engine_power_saved_w``, else net power + spin power;
     * spin power: the electric power drawn from the ship's plant, ``electrical_power_w`` when
       given, else ``spin_power_w``;
     so that net power gain = engine power saved - spin power, as in the rotor model.
@@ -344,7 +345,9 @@ def operation_arrays(op, n: int) -> dict:
     spin = _attr(op, "electrical_power_w", n)
     if np.all(np.isnan(spin)):
         spin = _attr(op, "spin_power_w", n, 0.0)
-    eng = _attr(op, "propulsion_power_saved_w", n)
+    # the engine saves the thrust power less what it spends on the leeway and rudder resistance
+    balance = _attr(op, "balance_power_w", n, 0.0)
+    eng = _attr(op, "propulsion_power_saved_w", n) - balance
     if np.all(np.isnan(eng)):
         eng = _attr(op, "engine_power_saved_w", n)
     if np.all(np.isnan(eng)):
@@ -352,7 +355,7 @@ def operation_arrays(op, n: int) -> dict:
     flags = _attr(op, "flags", n, 0.0)
     return {"net_power_w": net, "thrust_n": _attr(op, "thrust_n", n), "spin_power_w": spin,
             "engine_power_saved_w": eng, "side_force_n": _attr(op, "side_force_n", n, 0.0),
-            "heeling_moment_nm": _attr(op, "heeling_moment_nm", n, 0.0),
+            "heeling_moment_nm": _attr(op, "heeling_moment_nm", n, 0.0), "balance_power_w": balance,
             "state": _attr(op, "state", n, STATE_FREE),
             "flags": np.nan_to_num(flags, nan=0.0).astype(np.int64)}
 
@@ -401,7 +404,7 @@ def tally_conditions(operate: Callable, ship_speed_m_s, true_wind_speed_m_s, tru
     t.warnings = merge_warnings(_warnings_of(op))
     t.weight = float(w.sum())
     cols = np.stack([a["net_power_w"], a["thrust_n"], a["spin_power_w"], a["engine_power_saved_w"],
-                     a["side_force_n"], a["heeling_moment_nm"], vs, tws])
+                     a["side_force_n"], a["heeling_moment_nm"], vs, tws, a["balance_power_w"]])
     t.sums = cols @ w
     state = np.clip(np.rint(np.nan_to_num(a["state"], nan=STATE_FREE)).astype(np.int64), 0, 2)
     t.state = np.bincount(state, weights=w, minlength=3)[:3].astype(float)
@@ -710,11 +713,21 @@ class VoyageSummary:
     rows: int
     weight: float
     warnings: tuple = ()
+    #: Power the engine spends on the leeway and rudder resistance, mean at sea (0 without a hull). [W]
+    mean_balance_power_w: float = 0.0
+
+    @property
+    def balance_share(self) -> float:
+        """Share of the gross saving (thrust power) lost to leeway and rudder. [-]"""
+        gross = self.mean_engine_power_saved_w + self.mean_balance_power_w
+        return self.mean_balance_power_w / gross if gross > 0 else 0.0
 
     def as_json(self) -> dict:
         """The command-line keys (snake_case with units)."""
         return {
             "mean_net_power_kw": self.mean_net_power_w / 1000.0,
+            "mean_balance_power_kw": self.mean_balance_power_w / 1000.0,
+            "balance_share_of_gross": self.balance_share,
             "mean_thrust_kn": self.mean_thrust_n / 1000.0,
             "annual_energy_saved_mwh": self.annual_energy_saved_j / 3.6e9,
             "annual_fuel_saved_t": self.annual_fuel_saved_kg / 1000.0,
@@ -868,7 +881,8 @@ def summarise(t: Tally, ship: ShipEconomics, hours_at_sea_per_year: float | None
         discounted_payback_years=discounted_payback_years(ship.installed_cost, cost, ship.discount_rate),
         engine_power_share=(eng / me if me else math.nan),
         mean_ship_speed_m_s=t.mean("ship_speed_m_s"), mean_true_wind_speed_m_s=t.mean("true_wind_speed_m_s"),
-        rows=t.rows, weight=t.weight, warnings=merge_warnings(warnings))
+        rows=t.rows, weight=t.weight, warnings=merge_warnings(warnings),
+        mean_balance_power_w=t.mean("balance_power_w"))
 
 
 def summaries_over(setups, conditions: dict, ship: ShipEconomics, hours_at_sea_per_year: float | None = None,

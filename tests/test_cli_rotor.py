@@ -31,7 +31,8 @@ def run_json(capsys, *extra):
 
 
 def core(setup_kw=None, spin=None):
-    values = dict(setup_kw or {})  # the command's defaults are the study's (two rotors)
+    # the command's defaults are the study's (two rotors); without hull options, no hull balance
+    values = {"hull_balance": False, **(setup_kw or {})}
     setup = rotor_inputs.setup_from_inputs(values)
     args = (setup, 12 * KNOT_M_S, 20 * KNOT_M_S, math.radians(90))
     return rotor.best_operation(*args) if spin is None else rotor.fixed_operation(*args, **spin)

@@ -35,7 +35,7 @@ def test_json_keys_and_progress_on_stderr_only(capsys):
     for key in KEYS:
         assert key in data
     assert "%" in err  # the progress line went to stderr
-    r = run_study("voyage", {"wind_kind": "table", "sweep": False, "rotor_count": 2,
+    r = run_study("voyage", {"wind_kind": "table", "sweep": False, "rotor_count": 2, "hull_balance": False,
                              "ship_speed_m_s": 12 * (1852 / 3600), "hours_at_sea_h": 6000.0})
     # the command checks its inputs in marine units (as the rotor command does): the unit round
     # trip moves inputs by ~1e-16, which the best-spin search may carry to ~1e-10
@@ -52,7 +52,7 @@ def test_one_row_table_equals_the_single_condition_rotor_result(capsys, tmp_path
     assert code == 0
     data = json.loads(out)
     setup = rotor_inputs.setup_from_inputs({"diameter_m": 5.0, "height_m": 30.0, "rotor_count": 2,
-                                     "max_rpm": 200.0, "wind_profile": "power"})
+                                     "max_rpm": 200.0, "wind_profile": "power", "hull_balance": False})
     op = rotor.best_operation(setup, 11 * 1852 / 3600, speed, np.radians(angle))
     assert_allclose(data["mean_net_power_kw"], float(op.net_power_w) / 1000, rtol=1e-12)
     assert_allclose(data["mean_thrust_kn"], float(op.thrust_n) / 1000, rtol=1e-12)
@@ -149,8 +149,8 @@ def test_series_command_equals_the_study(capsys, tmp_path):
     code, out, _ = run_cli(capsys, BASE + ["--wind-series", str(path), "--in-process", "--json"])
     assert code == 0
     data = json.loads(out)
-    r = run_study("voyage", {"wind_kind": "series", "sweep": False, "rotor_count": 2, "fuel": "hfo"},
-                  extra=path)
+    r = run_study("voyage", {"wind_kind": "series", "sweep": False, "rotor_count": 2, "fuel": "hfo",
+                             "hull_balance": False}, extra=path)
     for key in KEYS[:-1]:
         assert_allclose(data[key], r.json[key], rtol=1e-12)
     assert data["hours_at_sea_source"] == "from the series"

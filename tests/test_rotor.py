@@ -480,7 +480,8 @@ def test_demo_scenario_loads_and_runs():
                                 "spin_power_friction_kw", "apparent_wind_speed_m_s", "apparent_wind_angle_deg",
                                 "spin_ratio", "rpm", "lift_coefficient", "drag_coefficient", "lift_n", "drag_n",
                                 "thrust_n", "side_force_n", "heeling_moment_knm", "spin_power_kw",
-                                "net_power_kw", "warnings"}
+                                "net_power_kw", "leeway_deg", "rudder_angle_deg", "balance_power_kw",
+                                "heel_angle_deg", "warnings"}  # the demo ship has a hull (invented)
     # the study's headline is the core's number for the same inputs
     setup = rotor_inputs.setup_from_inputs(sc.inputs)
     op = rotor.best_operation(setup, sc.inputs["ship_speed_m_s"], sc.inputs["true_wind_speed_m_s"],

@@ -113,6 +113,14 @@ st.subheader("What the rotors give")
 results.show_headlines(result, keys=("net_power_w", "thrust_n", "spin_power_w", "heeling_moment_nm"))
 st.markdown(f"<p class='lc-summary-small'>{results.bold_html(study.summary(result, system))}</p>",
             unsafe_allow_html=True)
+hull_keys = [h.key for h in result.headlines if h.key in ("balance_power_w", "leeway_deg",
+                                                          "rudder_angle_deg", "heel_angle_deg")]
+if hull_keys:
+    st.subheader("What the hull pays for the side force")
+    results.show_headlines(result, keys=tuple(hull_keys))
+else:
+    st.caption("The hull's answer to the side force (leeway, rudder) is left out: switch on "
+               "*Count the hull's answer to the side force* under Hull in the sidebar.")
 st.subheader("Forces and spin")
 results.show_headlines(result, keys=("side_force_n", "lift_n", "drag_n", "rpm"))
 st.subheader("Wind at the rotor and coefficients")

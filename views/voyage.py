@@ -87,6 +87,11 @@ show_headlines(result, keys=("mean_net_power", "annual_fuel_saved", "annual_co2_
                              "annual_cost_saved"))
 show_headlines(result, keys=("payback", "annual_energy_saved", "mean_thrust", "engine_power_share"))
 show_headlines(result, keys=("running_share", "limited_share", "stopped_share", "peak_heeling_moment"))
+if values["hull_balance"]:
+    show_headlines(result, keys=("mean_balance_power", "balance_share"))
+else:
+    st.caption("The hull's answer to the side force (leeway, rudder) is left out: switch on *Count the "
+               "hull's answer to the side force* under Hull in the sidebar.")
 
 c1, c2 = st.columns([1, 3])
 with c1:

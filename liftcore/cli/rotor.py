@@ -56,7 +56,54 @@ LIMIT_OPTIONS = (
     Option("electrical_efficiency", "--electrical-efficiency",
            text="rotor shaft power / electric power drawn"),
 )
-SHARED_OPTIONS = GEOMETRY_OPTIONS + PROFILE_OPTIONS + SET_OPTIONS + LIMIT_OPTIONS
+HULL_OPTIONS = (
+    Option("hull_length_m", "--hull-length-m", "m", text="length between perpendiculars", without="no hull balance"),
+    Option("hull_beam_m", "--hull-beam-m", "m", text="beam", without="no hull balance"),
+    Option("hull_draught_m", "--hull-draught-m", "m", text="mean draught", without="no hull balance"),
+    Option("block_coefficient", "--block-coefficient", text="block coefficient", without="no hull balance"),
+    Option("rudder_area_m2", "--rudder-area-m2", "m2", text="rudder area", without="no hull balance"),
+    Option("rudder_x_m", "--rudder-x-m", "m", text="rudder position forward of midships (negative: aft)",
+           without="-L/2"),
+    Option("rudder_aspect_ratio", "--rudder-aspect-ratio"),
+    Option("displacement_kg", "--displacement-t", "t", 1000.0, text="displacement for the heel angle",
+           without="C_b L B T x 1025 kg/m3"),
+    Option("metacentric_height_m", "--metacentric-height-m", "m", text="fluid GM for the heel angle",
+           without="no heel angle"),
+)
+#: The hull options that together switch the balance on.
+HULL_REQUIRED = HULL_OPTIONS[:5]
+SHARED_OPTIONS = GEOMETRY_OPTIONS + PROFILE_OPTIONS + SET_OPTIONS + LIMIT_OPTIONS + HULL_OPTIONS
+
+
+def add_hull_options(p, spec) -> None:
+    """The hull group: main dimensions, rudder, displacement, GM and ``--no-hull-balance``."""
+    g = p.add_argument_group("hull (leeway and rudder balance; give the first five together)")
+    add_options(g, spec, HULL_OPTIONS)
+    g.add_argument("--no-hull-balance", action="store_true",
+                   help="leave out the resistance leeway and rudder add (as without hull options)")
+
+
+def hull_values(args) -> dict:
+    """The study's hull inputs: the balance on when the main dimensions and rudder area are all
+    given (and not --no-hull-balance), off otherwise; no heel angle without --metacentric-height-m."""
+    given = [o for o in HULL_REQUIRED if getattr(args, o.dest) is not None]
+    if args.no_hull_balance or not given:
+        return {"hull_balance": False}
+    missing = [o.name for o in HULL_REQUIRED if getattr(args, o.dest) is None]
+    if missing:
+        raise InputError(missing[0], f"the hull balance needs {', '.join(o.name for o in HULL_REQUIRED)} "
+                                     f"together (missing {', '.join(missing)})")
+    out = {"hull_balance": True}
+    if args.rudder_x_m is None:
+        out["rudder_x_m"] = -0.5 * args.hull_length_m
+    if args.metacentric_height_m is None:
+        out["metacentric_height_m"] = 0.0
+    return out
+
+
+HULL_NOTE = ("no hull balance: the resistance leeway and rudder add to hold the side force is left out "
+             "(give --hull-length-m, --hull-beam-m, --hull-draught-m, --block-coefficient and "
+             "--rudder-area-m2 to count it)")
 ROTOR_OPTIONS = (
     Option("diameter_m", "--diameter-m", "m", required=True),
     Option("height_m", "--height-m", "m", required=True),
@@ -117,6 +164,7 @@ def add_parser(sub):
     add_coefficient_options(g)
     add_options(g, spec, SET_OPTIONS)
     add_options(p.add_argument_group("limits and efficiencies"), spec, LIMIT_OPTIONS)
+    add_hull_options(p, spec)
     add_air_options(p)
     add_json_flag(p)
     return p
@@ -124,7 +172,8 @@ def add_parser(sub):
 
 def values_from_args(args) -> tuple[dict, object]:
     """Validated study input values (core units) and a user table (or None) from the options."""
-    raw = {"spin_mode": "best", "wind_angle_reference": "relative", **option_values(args, OPTIONS)}
+    raw = {"spin_mode": "best", "wind_angle_reference": "relative", **option_values(args, OPTIONS),
+           **hull_values(args)}
     if args.spin_ratio is not None:
         raw["spin_mode"] = "spin_ratio"
     elif args.rpm is not None:
@@ -182,7 +231,16 @@ def execute(args, progress):
         ("Spin power, shaft" + total, f"{one['spin_power_w'] / 1000:.2f} kW "
                                       f"(electric {one['electrical_power_w'] / 1000:.2f} kW)"),
         ("Net power gain" + total, f"{one['net_power_w'] / 1000:.2f} kW"),
-    ] + [("Warning", w.message) for w in warnings]
+    ]
+    if "balance_power_kw" in data:
+        rows += [("Lost to leeway and rudder", f"{data['balance_power_kw']:.2f} kW (in the net gain)"),
+                 ("Leeway / rudder angle", f"{data['leeway_deg']:+.2f} / {data['rudder_angle_deg']:+.2f} deg "
+                                           "(+ to starboard)")]
+        if "heel_angle_deg" in data:
+            rows.append(("Heel angle (steady)", f"{data['heel_angle_deg']:+.2f} deg (+ to starboard)"))
+    else:
+        rows.append(("Note", HULL_NOTE))
+    rows += [("Warning", w.message) for w in warnings]
     rows.append(("Caution", "estimates for early design; rotor sails change stability, structure and "
                             "manoeuvring: defer to classification rules and a naval architect"))
     return data, text_table(rows)

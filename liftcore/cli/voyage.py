@@ -20,7 +20,8 @@ from liftcore import coefficients as coef
 from liftcore.cli import add_json_flag
 from liftcore.cli.common import (Option, add_air_options, add_options, air_values, option_names, option_values,
                                  require_one, text_table, validate_inputs)
-from liftcore.cli.rotor import SHARED_OPTIONS, add_coefficient_options, coefficient_values
+from liftcore.cli.rotor import (HULL_NOTE, HULL_OPTIONS, SHARED_OPTIONS, add_coefficient_options, coefficient_values,
+                                hull_values)
 from liftcore.constants import KNOT_M_S
 from liftcore.errors import InputError, check_number
 from liftcore.files import read_text
@@ -110,8 +111,11 @@ def add_parser(sub):
                    help="skip the year with every published coefficient set and spin-power estimate "
                         "(the *_range keys are then null)")
     r = p.add_argument_group("rotor, wind profile, coefficients, limits (as in the rotor command)")
-    add_options(r, spec, SHARED_OPTIONS)
+    add_options(r, spec, tuple(o for o in SHARED_OPTIONS if o not in HULL_OPTIONS))
     add_coefficient_options(r)
+    from liftcore.cli.rotor import add_hull_options
+
+    add_hull_options(p, spec)
     add_air_options(p, density=False)
     add_json_flag(p)
     return p
@@ -127,7 +131,7 @@ def values_from_args(args) -> tuple[dict, str]:
         raise InputError(option, f"{option} needs a file name (got an empty one)")
     # No CII for a ship whose fuel is not given (the page's demo ship is invented)
     v = {"wind_kind": kind, "sweep": bool(args.sweep), "published_spread": not args.no_spread,
-         "annual_fuel_kg": 0.0, **option_values(args, OPTIONS)}
+         "annual_fuel_kg": 0.0, **option_values(args, OPTIONS), **hull_values(args)}
     if args.no_aspect_ratio_correction:
         v["correct_aspect_ratio"] = False
     if args.coefficients:
@@ -172,6 +176,8 @@ def execute(args, progress):
     rows += [("Wind", f"{result.detail.wind_source} ({result.detail.conditions:,} "
                       f"{'rows' if result.detail.wind_kind == 'series' else 'conditions'}, "
                       f"computed {result.detail.engine})")]
+    if not clean["hull_balance"]:
+        rows.append(("Note", HULL_NOTE))
     sentence = study.cii_sentence(result.detail)
     rows += [("Carbon intensity", sentence.replace("**", "") + " " + study.CII_CAUTION) if sentence else
              ("Note", "no carbon intensity rating: give --annual-fuel-t (the ship's fuel per year "

@@ -191,8 +191,23 @@ def json_result(op: rotor.Operation, warnings, setup: rotor.RotorSetup | None = 
         "lift_n": one["lift_n"], "drag_n": one["drag_n"], "thrust_n": one["thrust_n"],
         "side_force_n": one["side_force_n"], "heeling_moment_knm": one["heeling_moment_nm"] / 1000.0,
         "spin_power_kw": one["spin_power_w"] / 1000.0, "net_power_kw": one["net_power_w"] / 1000.0,
+        **hull_json(op, setup),
         "warnings": [w.as_dict() for w in warnings],
     }
+
+
+def hull_json(op: rotor.Operation, setup: rotor.RotorSetup | None) -> dict:
+    """Leeway, rudder angle, the power they cost and (with displacement and GM) the heel angle of
+    one operating point; empty without a hull."""
+    if setup is None or setup.hull is None or op.balance_power_w is None:
+        return {}
+    one = op.at(())
+    out = {"leeway_deg": one["leeway_deg"], "rudder_angle_deg": one["rudder_angle_deg"],
+           "balance_power_kw": one["balance_power_w"] / 1000.0}
+    heel = setup.hull.heel_angle_deg(one["heeling_moment_nm"])
+    if heel is not None:
+        out["heel_angle_deg"] = float(heel)
+    return out
 
 
 def _comparison_sets(values: dict, chosen: coef.CoefficientSet, extra) -> list:
@@ -206,6 +221,28 @@ def _comparison_sets(values: dict, chosen: coef.CoefficientSet, extra) -> list:
         except InputError:
             pass  # an unused, unreadable user table does not stop the chosen set's results
     return sets
+
+
+def hull_headlines(op: rotor.Operation, setup: rotor.RotorSetup) -> tuple:
+    """Leeway, rudder angle, the power they cost and the heel angle (empty without a hull)."""
+    j = hull_json(op, setup)
+    if not j:
+        return ()
+    out = [
+        Headline("balance_power_w", "Lost to leeway and rudder", 1000.0 * j["balance_power_kw"], "power",
+                 help="Power the engine spends on the resistance that leeway and rudder add (through "
+                      "the propulsive efficiency); already taken off the net gain."),
+        Headline("leeway_deg", "Leeway", j["leeway_deg"], "angle",
+                 help="Angle the ship slides off its heading to hold the side force (+ to starboard); "
+                      "linear hull theory (Clarke et al. 1983)."),
+        Headline("rudder_angle_deg", "Rudder angle", j["rudder_angle_deg"], "angle",
+                 help="Rudder angle that holds the yaw moment (+: the rudder pushes to starboard)."),
+    ]
+    if "heel_angle_deg" in j:
+        out.append(Headline("heel_angle_deg", "Heel angle (steady)", j["heel_angle_deg"], "angle",
+                            help="Small-angle statics: M / (Δ g GM), + to starboard. Gusts, free surface "
+                                 "and the stability booklet govern."))
+    return tuple(out)
 
 
 def headlines(op: rotor.Operation) -> tuple:
@@ -364,7 +401,8 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     tables = {"operating_point": operating_table(detail), "coefficient_sets": sets_table(detail),
               "wind_angle_sweep": sweep_table(detail), "along_the_rotor": span_table(detail)}
     prog(1.0, "Done")
-    return StudyResult(kind=KIND, inputs=dict(values), headlines=headlines(op), warnings=warnings,
+    return StudyResult(kind=KIND, inputs=dict(values), headlines=headlines(op) + hull_headlines(op, setup),
+                       warnings=warnings,
                        figures=figures, tables=tables, detail=detail, json=json_result(op, warnings, setup))
 
 

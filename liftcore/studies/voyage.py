@@ -578,6 +578,12 @@ def _result(values: dict, d: VoyageDetail) -> StudyResult:
                  help=f"(0.5144 V_ref / η_T) Σ F·W − Σ P·W at V_ref = "
                       f"{d.imo_reference_speed_m_s / KNOT_M_S:.3g} kn over this trade's wind "
                       "probabilities W (MEPC.1/Circ.896)."),
+        Headline("mean_balance_power", "Lost to leeway and rudder, mean at sea", s.mean_balance_power_w, "power",
+                 help="Engine power spent on the resistance the hull's leeway and the rudder add to hold "
+                      "the rotors' side force (already taken off the net gain); 0 when the hull is "
+                      "left out."),
+        Headline("balance_share", "Share of the gross saving lost to it", 100.0 * s.balance_share, "percent",
+                 digits=3, help="Leeway and rudder power / the thrust power the rotors give."),
         Headline("peak_heeling_moment", "Highest heeling moment met", s.peak_heeling_moment_nm,
                  "moment", help="Largest heeling moment of all rotors in any condition of the input "
                                 "(mean winds; gusts are higher)."),
