@@ -201,20 +201,16 @@ def _hull_warnings(setup, w, res, n) -> list:
 
     out = []
     b = setup.hull.balance(res["side"], float(np.mean(setup.rotor_positions_m)), w.ship)
-    m = np.abs(b["leeway_deg"]) > hm.LEEWAY_LINEAR_DEG
-    if m.any():
-        out.append(ModelWarning("leeway_beyond_linear",
-                                f"Leeway up to {np.abs(b['leeway_deg'][m]).max():.1f}° exceeds "
-                                f"{hm.LEEWAY_LINEAR_DEG:g}° (common practice limit of linear hull "
-                                f"theory){_count(m, n)}: the lost power is underestimated there.",
-                                "balance_power_w"))
-    m = np.abs(b["rudder_angle_deg"]) > hm.RUDDER_LINEAR_DEG
-    if m.any():
-        out.append(ModelWarning("rudder_beyond_linear",
-                                f"Rudder angle up to {np.abs(b['rudder_angle_deg'][m]).max():.1f}° exceeds "
-                                f"{hm.RUDDER_LINEAR_DEG:g}° (common practice limit of linear rudder "
-                                f"lift){_count(m, n)}: little rudder is left for steering.",
-                                "balance_power_w"))
+    for key, limit, code, what, theory, consequence in (
+            ("leeway_deg", hm.LEEWAY_LINEAR_DEG, "leeway_beyond_linear", "Leeway", "linear hull theory",
+             "the lost power is underestimated there"),
+            ("rudder_angle_deg", hm.RUDDER_LINEAR_DEG, "rudder_beyond_linear", "Rudder angle",
+             "linear rudder lift", "little rudder is left for steering")):
+        m = np.abs(b[key]) > limit
+        if m.any():
+            out.append(ModelWarning(code, f"{what} up to {np.abs(b[key][m]).max():.1f}° exceeds {limit:g}° "
+                                          f"(common practice limit of {theory}){_count(m, n)}: {consequence}.",
+                                    "balance_power_w"))
     slow = (w.ship < hm.MIN_SPEED_M_S) & (np.abs(res["side"]) > 0)
     if slow.any():
         out.append(ModelWarning("no_balance_at_rest", f"Below {hm.MIN_SPEED_M_S:g} m/s the ship makes no way: "

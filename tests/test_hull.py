@@ -127,3 +127,16 @@ def test_a_ship_at_rest_counts_no_balance():
     assert float(op.balance_power_w) == 0.0
     assert any(w.code == "no_balance_at_rest" for w in op.warnings) or float(op.side_force_n) == 0.0
     assert float(rotor.best_operation(setup, 12 * KNOT_M_S, 10.0, math.radians(90)).balance_power_w) > 0
+
+
+def test_leeway_and_rudder_beyond_the_linear_range_are_warned():
+    """Common practice limits: leeway 10 deg, rudder 15 deg (linear theory)."""
+    slow = rotor.best_operation(rotor_inputs.setup_from_inputs({}), 0.6, 20.0, math.radians(90))
+    assert abs(float(slow.leeway_deg)) > hm.LEEWAY_LINEAR_DEG
+    assert "leeway_beyond_linear" in {w.code for w in slow.warnings}
+    small = rotor_inputs.setup_from_inputs({"rudder_area_m2": 0.5})
+    op = rotor.best_operation(small, 6.0, 15.0, math.radians(90))
+    assert abs(float(op.rudder_angle_deg)) > hm.RUDDER_LINEAR_DEG
+    assert "rudder_beyond_linear" in {w.code for w in op.warnings}
+    fine = rotor.best_operation(rotor_inputs.setup_from_inputs({}), 6.0, 10.0, math.radians(90))
+    assert not {"leeway_beyond_linear", "rudder_beyond_linear"} & {w.code for w in fine.warnings}
