@@ -664,6 +664,8 @@ class Flight:
     ball_key: str = ""
     model_key: str = ""
     density_kg_m3: float = 0.0
+    #: Where the ball crosses the check distance (:func:`at_distance`), or None.
+    at_check: dict | None = None
 
     def headline_dict(self) -> dict:
         return {k: getattr(self, k) for k in OUTPUTS}
@@ -693,11 +695,59 @@ def _sample_path(setup: FlightSetup, knots, n_samples: int = 160) -> dict:
             "reynolds": Re, "cd": CD, "cl": CL}
 
 
-def fly(setup: FlightSetup, launch: Launch, label: str = "Flight", **kw) -> Flight:
-    """One flight with its sampled path and warnings (see :func:`flight_warnings`)."""
+#: Largest check distance accepted (beyond any ball's carry). [m]
+MAX_CHECK_DISTANCE_M = 1000.0
+
+
+def at_distance(knots, distance_m: float) -> dict | None:
+    """Where a flight is when it first crosses the downrange distance ``distance_m``.
+
+    Parameters
+    ----------
+    knots : tuple
+        ``(t, Y, F)`` step knots of one flight (``BatchResult.records``), in flight order.
+    distance_m : float
+        Downrange distance of the check (a wall, a net, a goal line). [m]
+
+    Returns
+    -------
+    dict or None
+        ``distance_m``, ``height_m``, ``lateral_m`` (right +), ``time_s``, ``speed_m_s`` (over the
+        ground); None when the ball lands (or stops) before it gets there.
+
+    Notes
+    -----
+    The step whose downrange distance brackets D is found, and the crossing inside it by
+    bisection on the same cubic Hermite interpolant the charts use (x is monotonic within a step
+    of a ball moving downrange; 50 halvings fix the time far below the step's error).
+    """
+    d = check_number("check distance", distance_m, "m", low=0.0, high=MAX_CHECK_DISTANCE_M, low_inclusive=False)
+    T, Yk, Fk = knots
+    if T.size < 2:
+        return None
+    after = np.flatnonzero((Yk[0, :-1] < d) & (Yk[0, 1:] >= d))
+    if not after.size:
+        return None
+    k = int(after[0])
+    lo, hi = T[k], T[k + 1]
+    for _ in range(50):
+        mid = 0.5 * (lo + hi)
+        x = _hermite(T[k], T[k + 1], Yk[0, k], Yk[0, k + 1], Fk[0, k], Fk[0, k + 1], mid)
+        lo, hi = (mid, hi) if x < d else (lo, mid)
+    t = 0.5 * (lo + hi)
+    Y = _hermite(T[k], T[k + 1], Yk[:, k], Yk[:, k + 1], Fk[:, k], Fk[:, k + 1], t)
+    return {"distance_m": d, "height_m": float(Y[2]), "lateral_m": float(-Y[1]) + 0.0, "time_s": float(t),
+            "speed_m_s": float(np.sqrt(Y[3] ** 2 + Y[4] ** 2 + Y[5] ** 2))}
+
+
+def fly(setup: FlightSetup, launch: Launch, label: str = "Flight", check_distance_m: float | None = None,
+        **kw) -> Flight:
+    """One flight with its sampled path and warnings (see :func:`flight_warnings`); with
+    ``check_distance_m``, where it crosses that distance (:func:`at_distance`) in ``at_check``."""
     launch.validate()
     res = simulate(setup, launch, record=True, **kw)
     path = _sample_path(setup, res.records[0])
+    check = at_distance(res.records[0], check_distance_m) if check_distance_m else None
     return Flight(label=label, carry_m=float(res.carry_m[0]), peak_height_m=float(res.peak_height_m[0]),
                   flight_time_s=float(res.flight_time_s[0]), lateral_m=float(res.lateral_m[0]),
                   descent_angle_deg=float(res.descent_angle_deg[0]),
@@ -705,7 +755,7 @@ def fly(setup: FlightSetup, launch: Launch, label: str = "Flight", **kw) -> Flig
                   landing_spin_rpm=float(res.landing_spin_rpm[0]), landed=bool(res.landed[0]),
                   path=path, warnings=flight_warnings(setup, res, launch),
                   ball_key=setup.ball.key, model_key=setup.model_key,
-                  density_kg_m3=setup.density_kg_m3)
+                  density_kg_m3=setup.density_kg_m3, at_check=check)
 
 
 # ----------------------------------------------------------------------------- warnings

@@ -9,6 +9,7 @@ from liftcore.balls import BALL_KEYS, MODEL_KEYS
 from liftcore.cli import add_json_flag
 from liftcore.cli.common import add_air_options, air_values, density_from_args, text_table
 from liftcore.errors import InputError, check_choice, check_number
+from liftcore.ballflight import MAX_CHECK_DISTANCE_M
 from liftcore.studies import run_study
 
 
@@ -42,6 +43,9 @@ def add_parser(sub):
                    help="wind comes from, clockwise from downrange: 0 into the face, 180 from behind [deg]")
     g.add_argument("--wind-profile", default="uniform", help="uniform or power_law")
     g = p.add_argument_group("launch spread")
+    g.add_argument("--check-distance-m", type=float, metavar="D",
+                   help="report where the ball is when it first crosses downrange distance D [m] "
+                        "(at_check in --json; null if it lands first)")
     g.add_argument("--dispersion", type=int, default=0, metavar="N", help="fly N flights with drawn launch conditions")
     g.add_argument("--seed", type=int, default=1, help="random seed for --dispersion")
     add_json_flag(p)
@@ -73,6 +77,9 @@ def values_from_args(args) -> dict:
         "wind_speed_m_s": args.wind_speed_m_s, "wind_from_deg": args.wind_from_deg,
         "wind_profile": args.wind_profile, "dispersion_n": args.dispersion, "dispersion_seed": args.seed,
     }
+    if args.check_distance_m is not None:
+        values["check_distance_m"] = check_number("check-distance-m", args.check_distance_m, "m", low=0.0,
+                                                  high=MAX_CHECK_DISTANCE_M, low_inclusive=False)
     if args.density_kg_m3 is not None:
         values["set_density"] = True
         values["density_kg_m3"] = rho
@@ -100,7 +107,8 @@ def execute(args, progress):
     js = result.json
     data = {k: js[k] for k in ("carry_m", "peak_height_m", "flight_time_s", "lateral_m",
                                "descent_angle_deg", "landing_speed_m_s", "warnings")}
-    data.update({k: js[k] for k in ("ball", "coefficient_model", "air_density_kg_m3", "landing_spin_rpm")})
+    data.update({k: js[k] for k in ("ball", "coefficient_model", "air_density_kg_m3", "landing_spin_rpm",
+                                    "at_check")})
     rows = [("Ball", f"{result.detail.setup.ball.name} ({result.detail.setup.model.label()})"),
             ("Air density", f"{js['air_density_kg_m3']:.4f} kg/m3"),
             ("Carry", f"{js['carry_m']:.2f} m"), ("Peak height", f"{js['peak_height_m']:.2f} m"),
@@ -114,6 +122,12 @@ def execute(args, progress):
         rows += [("Flights drawn", f"{d['n']}"),
                  ("Carry P05 / P50 / P95", f"{d['carry_m_p05']:.2f} / {d['carry_m_p50']:.2f} / {d['carry_m_p95']:.2f} m"),
                  ("Drift sd", f"{d['lateral_m_sd']:.2f} m")]
+    if args.check_distance_m is not None:
+        c = js["at_check"]
+        rows.append((f"At {args.check_distance_m:g} m downrange",
+                     "the ball lands before it gets there" if c is None else
+                     f"height {c['height_m']:.2f} m, drift {c['lateral_m']:+.2f} m, after {c['time_s']:.2f} s "
+                     f"at {c['speed_m_s']:.2f} m/s"))
     rows += [("Warning", w["message"]) for w in js["warnings"]]
     rows += [("Caution", "results are for analysis, not for safety distances")]
     return data, text_table(rows)

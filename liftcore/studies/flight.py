@@ -53,6 +53,10 @@ INPUTS = InputSpec(KIND, (
            help="Horizontal angle from the target line; positive aims to the right."),
     number("launch_height_m", "Launch height", "length", 1.0, 0.0, 100.0, section="Launch", step=0.1,
            help="Height of the ball above the landing ground at launch."),
+    number("check_distance_m", "Check the ball at a distance (0 = none)", "distance", 0.0, 0.0,
+           bf.MAX_CHECK_DISTANCE_M, section="Launch", step=1.0,
+           help="Downrange distance of a wall, net or goal line: where the ball is (height, drift, "
+                "speed) when it first gets there."),
     number("spin_rpm", "Spin rate", "rotation", 2000.0, 0.0, 20000.0, section="Spin", step=100.0,
            help="Revolutions per minute at launch."),
     number("spin_axis_deg", "Spin-axis tilt (right +)", "angle", 0.0, -180.0, 180.0, section="Spin", step=5.0,
@@ -388,7 +392,7 @@ def comparison_flight(values: dict):
 def run(values: dict, progress=None, extra=None) -> StudyResult:
     setup, air = setup_from_values(values)
     launch = launch_from_values(values).validate()
-    main = bf.fly(setup, launch, label="This flight")
+    main = bf.fly(setup, launch, label="This flight", check_distance_m=values["check_distance_m"] or None)
     flights = [main]
     cmp_ws: tuple = ()
     cmp = comparison_flight(values)
@@ -430,6 +434,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     js["coefficient_model"] = setup.model_key
     js["air_density_kg_m3"] = setup.density_kg_m3
     js["landing_spin_rpm"] = main.landing_spin_rpm
+    js["at_check"] = main.at_check  # None without a check distance, or when the ball lands first
     if cmp is not None:
         js["comparison"] = {"label": cmp[0].label, **cmp[0].headline_dict(),
                             "warnings": [w.as_dict() for w in cmp_ws]}
@@ -511,7 +516,22 @@ def summary(result: StudyResult, system: str = "SI") -> str:
     return (f"The {result.detail.setup.ball.name.lower()} carries **{h['carry_m']}** along the target "
             f"line, peaks at **{h['peak_height_m']}**, stays up **{h['flight_time_s']}** and lands "
             f"{where} the line at **{h['landing_speed_m_s']}**, coming down at "
-            f"**{h['descent_angle_deg']}**.")
+            f"**{h['descent_angle_deg']}**.{check_sentence(result, system)}")
+
+
+def check_sentence(result: StudyResult, system: str = "SI") -> str:
+    """Where the ball is at the check distance, as a sentence (leading space), or ""."""
+    d = result.inputs.get("check_distance_m", 0.0)
+    if not d:
+        return ""
+    q = lambda x, kind: units.quantity_text(x, kind, system)  # noqa: E731
+    c = result.detail.flights[0].at_check
+    if c is None:
+        return f" It lands before **{q(d, 'distance')}** downrange."
+    side = "right" if c["lateral_m"] > 0 else "left"
+    drift = f"**{q(abs(c['lateral_m']), 'distance')}** {side} of the line" if c["lateral_m"] else "on the line"
+    return (f" At **{q(d, 'distance')}** downrange it is **{q(c['height_m'], 'length')}** up, {drift}, "
+            f"after **{q(c['time_s'], 'time')}** at **{q(c['speed_m_s'], 'ball_speed')}**.")
 
 
 def display_flights(result: StudyResult, system: str) -> tuple:
