@@ -120,26 +120,30 @@ class FlightSetup:
     cl_scale: float = 1.0
     spin_decay: bool = True
     gravity_m_s2: float = G0
+    #: The user's own coefficient table (:func:`liftcore.balls.table_model`), model key "table".
+    aero_table: CoefficientModel | None = None
 
     @property
     def model(self) -> CoefficientModel:
-        return get_model(self.model_key)
+        return self.aero_table if self.aero_table is not None else get_model(self.model_key)
 
 
 def make_setup(ball_key: str = "baseball", model_key: str | None = None, *, density_kg_m3: float,
                kinematic_viscosity_m2_s: float = 1.46e-5, speed_of_sound_m_s: float = 340.3,
                wind: Wind | None = None, cd_scale: float = 1.0, cl_scale: float = 1.0,
                spin_decay: bool = True, diameter_m: float | None = None,
-               mass_kg: float | None = None) -> FlightSetup:
-    """Validated :class:`FlightSetup` from plain values (``ball_key='custom'`` needs size and mass)."""
+               mass_kg: float | None = None, aero_table: CoefficientModel | None = None) -> FlightSetup:
+    """Validated :class:`FlightSetup` from plain values (``ball_key='custom'`` needs size and mass;
+    ``aero_table`` a model from :func:`liftcore.balls.table_model` replaces the ball's)."""
     from liftcore.balls import custom_ball
 
     if ball_key == "custom":
-        b = custom_ball(diameter_m, mass_kg, model_key or "achenbach1972")
+        b = custom_ball(diameter_m, mass_kg, "achenbach1972" if aero_table is not None else model_key or "achenbach1972")
     else:
         b = ball(ball_key)
-    mk = model_key or b.model
-    check_choice("coefficient model", mk, MODELS)
+    mk = "table" if aero_table is not None else model_key or b.model
+    if aero_table is None:
+        check_choice("coefficient model", mk, MODELS)
     rho = check_number("air density", density_kg_m3, "kg/m3", low=0.0, high=2.0)
     nu = check_number("kinematic viscosity", kinematic_viscosity_m2_s, "m2/s", low=1e-6, high=1e-3)
     a = check_number("speed of sound", speed_of_sound_m_s, "m/s", low=200.0, high=400.0)
@@ -151,7 +155,8 @@ def make_setup(ball_key: str = "baseball", model_key: str | None = None, *, dens
     check_number("wind profile exponent", w.exponent, "", low=0.0, high=1.0)
     check_number("drag scale", cd_scale, "", low=0.0, high=10.0)
     check_number("lift scale", cl_scale, "", low=-10.0, high=10.0)
-    return FlightSetup(b, mk, rho, nu, a, w, float(cd_scale), float(cl_scale), bool(spin_decay))
+    return FlightSetup(b, mk, rho, nu, a, w, float(cd_scale), float(cl_scale), bool(spin_decay),
+                       aero_table=aero_table)
 
 
 @dataclass(frozen=True)
@@ -1226,7 +1231,7 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
     groups = [(str(k), g.sort_values("t")) for k, g in df.groupby("flight", sort=False)]
     nf = len(groups)
     if mode == "constant":
-        setup = replace(setup, model_key="constant")
+        setup = replace(setup, model_key="constant", aero_table=None)
         names = ["CD", "CL"]
         p0 = [0.35, 0.2]
     else:
@@ -1355,7 +1360,7 @@ def make_demo_tracks(setup: FlightSetup, launches: list[Launch], cd: float, cl: 
     """
     import pandas as pd
 
-    su = replace(setup, model_key="constant", cd_scale=cd, cl_scale=cl)
+    su = replace(setup, model_key="constant", aero_table=None, cd_scale=cd, cl_scale=cl)
     rng = np.random.default_rng(seed)
     rows = []
     times = np.arange(0.0, duration_s + 1e-9, 1.0 / rate_hz)

@@ -19,7 +19,7 @@ from typing import Callable
 
 import numpy as np
 
-from liftcore.errors import InputError, check_choice, check_number, pick_model
+from liftcore.errors import InputError, check_choice, check_number, echo, pick_model
 
 #: Metres per inch and kilograms per ounce (avoirdupois), exact by the 1959 international
 #: yard and pound agreement: 1 in = 0.0254 m, 1 lb = 0.45359237 kg, 1 oz = 1/16 lb.
@@ -547,6 +547,120 @@ MODELS: dict[str, CoefficientModel] = {
 }
 
 MODEL_KEYS = tuple(MODELS)
+
+#: Bounds of an aerodynamic table of the user's own: rows, spin parameter, Reynolds number, CD, CL.
+TABLE_MAX_ROWS = 10_000
+TABLE_LIMITS = {"S": (0.0, 10.0), "Re": (1.0e3, 1.0e7), "CD": (0.0, 5.0), "CL": (-3.0, 3.0)}
+#: Largest aerodynamic table file read. [bytes]
+TABLE_MAX_BYTES = 1_000_000
+
+
+def table_model(source, name: str = "aerodynamic table") -> CoefficientModel:
+    """A coefficient model from the user's own table of CD and CL over spin parameter S (and,
+    optionally, Reynolds number).
+
+    Parameters
+    ----------
+    source : str, bytes or pandas.DataFrame
+        CSV text with a header ``S, CD, CL`` and optionally ``Re`` (any order, any case); with
+        ``Re`` the rows must form a full grid (every S at every Re).
+    name : str
+        How the table is named in messages.
+
+    Returns
+    -------
+    CoefficientModel
+        ``key="table"``; its S and Re ranges are the table's (flights leaving them are warned
+        about, and the coefficients are held at the table's edge there).
+
+    Notes
+    -----
+    Piecewise-linear interpolation, monotone between the points: in S with :func:`numpy.interp`,
+    over (Re, S) bilinear with :class:`scipy.interpolate.RegularGridInterpolator`. Lift acts only
+    while the ball spins (CL x [S > 0]), as in the constant model, so a table of one CD and CL
+    everywhere flies exactly like the constant model with those values.
+
+    Raises
+    ------
+    InputError
+        Missing columns, cells that are not numbers or outside :data:`TABLE_LIMITS`, repeated or
+        missing grid points, fewer than 2 rows or more than :data:`TABLE_MAX_ROWS`.
+    """
+    import io
+
+    import pandas as pd
+
+    if isinstance(source, pd.DataFrame):
+        df = source.copy()
+    else:
+        text = source.decode("utf-8-sig", errors="replace") if isinstance(source, (bytes, bytearray)) else str(source)
+        if len(text) > TABLE_MAX_BYTES:
+            raise InputError("aero table", f"{name} is {len(text):,} characters; at most {TABLE_MAX_BYTES:,} are read")
+        if not text.strip():
+            raise InputError("aero table", f"{name} is empty; it needs a header S, CD, CL (and optionally Re)")
+        try:
+            df = pd.read_csv(io.StringIO(text), comment="#", skipinitialspace=True)
+        except (pd.errors.ParserError, pd.errors.EmptyDataError, ValueError) as exc:
+            raise InputError("aero table", f"{name} is not a readable CSV table ({' '.join(str(exc).split())[:120]})") from None
+    cols = {str(c).strip().lower(): c for c in df.columns}
+    missing = [c for c in ("S", "CD", "CL") if c.lower() not in cols]
+    if missing:
+        raise InputError("aero table", f"{name} needs the columns S, CD, CL (and optionally Re); missing "
+                                       f"{', '.join(missing)} (found {', '.join(map(str, df.columns)) or 'none'})")
+    if not 2 <= len(df) <= TABLE_MAX_ROWS:
+        raise InputError("aero table", f"{name} has {len(df)} rows; it needs 2 to {TABLE_MAX_ROWS:,}")
+    arrays = {}
+    for c in ("S", "CD", "CL", "Re"):
+        if c.lower() not in cols:
+            continue
+        vals = pd.to_numeric(df[cols[c.lower()]], errors="coerce").to_numpy(dtype=float)
+        low, high = TABLE_LIMITS[c]
+        bad = np.flatnonzero(~np.isfinite(vals) | (vals < low) | (vals > high))
+        if bad.size:
+            k = int(bad[0])
+            raise InputError("aero table", f"{name}: {c} in data row {k + 1} must be a number from {low:g} to "
+                                           f"{high:g} (got {echo(df[cols[c.lower()]].iloc[k])})")
+        arrays[c] = vals
+    S, CD, CL = arrays["S"], arrays["CD"], arrays["CL"]
+    if "Re" not in arrays:
+        order = np.argsort(S, kind="stable")
+        S, CD, CL = S[order], CD[order], CL[order]
+        if np.any(np.diff(S) == 0):
+            raise InputError("aero table", f"{name}: S {S[np.flatnonzero(np.diff(S) == 0)[0]]:g} appears twice; "
+                                           "without a Re column each S may appear once")
+
+        def coefficients(s, re, v, rpm):
+            s = np.asarray(s, dtype=float)
+            return np.interp(s, S, CD), np.interp(s, S, CL) * (s > 0.0)
+        re_range = (0.0, math.inf)
+    else:
+        from scipy.interpolate import RegularGridInterpolator
+
+        Re = arrays["Re"]
+        rs, ss = np.unique(Re), np.unique(S)
+        if rs.size < 2 or ss.size < 2 or rs.size * ss.size != len(S):
+            raise InputError("aero table", f"{name}: with a Re column the rows must be a full grid (every S at "
+                                           f"every Re, at least 2 of each): {ss.size} S values x {rs.size} Re "
+                                           f"values need {ss.size * rs.size} rows, got {len(S)}")
+        i, j = np.searchsorted(rs, Re), np.searchsorted(ss, S)
+        grid_cd, grid_cl = np.full((rs.size, ss.size), np.nan), np.full((rs.size, ss.size), np.nan)
+        grid_cd[i, j], grid_cl[i, j] = CD, CL
+        if np.isnan(grid_cd).any():
+            raise InputError("aero table", f"{name}: a point of the (Re, S) grid appears twice and another is missing")
+        f_cd = RegularGridInterpolator((rs, ss), grid_cd)
+        f_cl = RegularGridInterpolator((rs, ss), grid_cl)
+
+        def coefficients(s, re, v, rpm):
+            s = np.asarray(s, dtype=float)
+            shape = np.broadcast(s, np.asarray(re, dtype=float)).shape
+            pts = np.stack([np.clip(np.broadcast_to(re, shape), rs[0], rs[-1]).ravel(),
+                            np.clip(np.broadcast_to(s, shape), ss[0], ss[-1]).ravel()], axis=-1)
+            return f_cd(pts).reshape(shape), f_cl(pts).reshape(shape) * (s > 0.0)
+        re_range = (float(rs[0]), float(rs[-1]))
+    return CoefficientModel("table", "Your own aerodynamic table", f"{name}, entered by the user", coefficients,
+                            (float(S.min()), float(S.max())), re_range, False,
+                            note="CD and CL as tabulated, interpolated linearly and held at the table's edges.",
+                            provenance={"cd": "user data", "cl": "user data", "range": "the table's"})
 
 
 def model(key: str) -> CoefficientModel:

@@ -26,6 +26,9 @@ def add_parser(sub):
     g.add_argument("--mass-kg", type=float, help="mass of a custom ball [kg]")
     g.add_argument("--cd", type=float, help="drag coefficient for --model constant")
     g.add_argument("--cl", type=float, help="lift coefficient for --model constant")
+    g.add_argument("--aero-table", metavar="FILE.csv",
+                   help="your own CD and CL over spin parameter: CSV with columns S, CD, CL and optionally "
+                        "Re (a full grid), in place of --model")
     g = p.add_argument_group("launch")
     g.add_argument("--speed-m-s", type=float, required=True, help="launch speed [m/s]")
     g.add_argument("--elevation-deg", type=float, required=True, help="elevation above horizontal, -90..90 [deg]")
@@ -86,6 +89,16 @@ def values_from_args(args) -> dict:
     if args.model is not None:
         check_choice("model", args.model, MODEL_KEYS)
         values["coefficient_model"] = args.model
+    if args.aero_table is not None:
+        if args.model is not None:
+            raise InputError("--aero-table", "give either --aero-table or --model, not both")
+        from liftcore.balls import TABLE_MAX_BYTES, table_model
+        from liftcore.files import read_text
+
+        table = read_text(args.aero_table, "--aero-table", TABLE_MAX_BYTES)
+        table_model(table, f"--aero-table file {args.aero_table.rsplit('/', 1)[-1]}")  # check, naming the file
+        values["coefficient_model"] = "table"
+        values["aero_table_csv"] = table
     if args.ball == "custom":
         check_number("diameter-m", args.diameter_m, "m", low=0.01, high=0.4)
         check_number("mass-kg", args.mass_kg, "kg", low=0.0005, high=2.0)

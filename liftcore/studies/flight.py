@@ -16,7 +16,7 @@ from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
 from liftcore.errors import InputError
-from liftcore.inputs import InputSpec, choice, flag, integer, number
+from liftcore.inputs import InputSpec, choice, flag, integer, number, text
 from liftcore.studies import Charts, Headline, StudyResult, Tables, table_in_units
 from liftcore.validity import ModelWarning, merge
 
@@ -24,8 +24,9 @@ KIND = "flight"
 TITLE = "Spinning ball flight"
 
 _BALL_LABELS = tuple(BALLS[k].name for k in BALL_KEYS[:-1]) + ("Custom ball (your size, mass, model)",)
-_MODEL_CHOICES = ("ball_default",) + MODEL_KEYS
-_MODEL_LABELS = ("The ball's own model",) + tuple(MODELS[k].label() for k in MODEL_KEYS)
+_MODEL_CHOICES = ("ball_default",) + MODEL_KEYS + ("table",)
+_MODEL_LABELS = (("The ball's own model",) + tuple(MODELS[k].label() for k in MODEL_KEYS)
+                 + ("Your own table (CSV: S, CD, CL[, Re])",))
 COMPARE_CHOICES = ("none", "altitude", "ball", "spin", "speed", "vacuum")
 COMPARE_LABELS = ("No second flight", "Same launch at another altitude", "Same launch with another ball",
                   "Same launch with another spin rate", "Same launch at another speed",
@@ -45,6 +46,11 @@ INPUTS = InputSpec(KIND, (
            help="Used only with the constant-coefficient model."),
     number("constant_cl", "Constant lift coefficient CL", "ratio", 0.20, -1.0, 3.0, section="Custom ball and constants", step=0.01,
            help="Used only with the constant-coefficient model (lift acts only while the ball spins)."),
+    text("aero_table_csv", "Your aerodynamic table (CSV text)", "S,CD,CL\n0,0.30,0\n0.1,0.28,0.12\n0.3,0.30,0.25\n",
+         section="Custom ball and constants", lines=7,
+         help="Columns S, CD, CL and optionally Re (then a full grid: every S at every Re); "
+              "interpolated linearly and held at the edges (flights leaving it are warned about). "
+              "The example rows are invented."),
     number("speed_m_s", "Launch speed", "ball_speed", 44.704, 0.0, 150.0, section="Launch", step=0.1,
            help="Ball speed just after launch."),
     number("elevation_deg", "Elevation", "angle", 28.0, -90.0, 90.0, section="Launch", step=0.5,
@@ -113,6 +119,7 @@ INPUTS = INPUTS.with_rules({
     "custom_mass_kg": lambda v: v["ball"] == "custom",
     "constant_cd": lambda v: v["coefficient_model"] == "constant",
     "constant_cl": lambda v: v["coefficient_model"] == "constant",
+    "aero_table_csv": lambda v: v["coefficient_model"] == "table",
     "density_kg_m3": lambda v: bool(v["set_density"]),
     "wind_ref_height_m": lambda v: v["wind_profile"] == "power_law",
     "wind_exponent": lambda v: v["wind_profile"] == "power_law",
@@ -238,7 +245,12 @@ def setup_from_values(values: dict, ball_key: str | None = None, altitude_m: flo
         rho = 0.0
     bk = ball_key or v["ball"]
     mk = v["coefficient_model"]
-    if ball_key is not None or mk == "ball_default":
+    aero = None
+    if mk == "table" and ball_key is None:
+        from liftcore.balls import table_model
+
+        aero, mk = table_model(v["aero_table_csv"], "your aerodynamic table"), None
+    if ball_key is not None or mk == "ball_default" or (mk == "table"):
         mk = None if bk != "custom" else "achenbach1972"
     cd_scale, cl_scale = v["cd_scale"], v["cl_scale"]
     if (mk or (BALLS[bk].model if bk in BALLS else "")) == "constant":
@@ -249,7 +261,7 @@ def setup_from_values(values: dict, ball_key: str | None = None, altitude_m: flo
                           kinematic_viscosity_m2_s=air.dynamic_viscosity_pa_s / max(air.density_kg_m3, 1e-9),
                           speed_of_sound_m_s=air.speed_of_sound_m_s, wind=wind, cd_scale=cd_scale,
                           cl_scale=cl_scale, spin_decay=v["spin_decay"], diameter_m=v["custom_diameter_m"],
-                          mass_kg=v["custom_mass_kg"])
+                          mass_kg=v["custom_mass_kg"], aero_table=aero)
     return setup, air
 
 
