@@ -671,6 +671,8 @@ class Flight:
     density_kg_m3: float = 0.0
     #: Where the ball crosses the check distance (:func:`at_distance`), or None.
     at_check: dict | None = None
+    #: Bounces and roll to rest (:func:`_after_landing`), or None without a ground.
+    run_out: dict | None = None
 
     def headline_dict(self) -> dict:
         return {k: getattr(self, k) for k in OUTPUTS}
@@ -745,14 +747,57 @@ def at_distance(knots, distance_m: float) -> dict | None:
             "speed_m_s": float(np.sqrt(Y[3] ** 2 + Y[4] ** 2 + Y[5] ** 2))}
 
 
+def _after_landing(setup: FlightSetup, launch: Launch, res: BatchResult, ground_key: str):
+    """(run-out dict, path of the flight after the first bounce or None) for one landed flight."""
+    from liftcore import bounce as bo
+
+    T, Yk, _ = res.records[0]
+    state = Yk[:, -1]
+    axis = launch_vectors(launch)[1][:, 0]
+    v_t, v_n, w_b, heading = bo.landing_components(state, axis)
+    r, k = setup.ball.radius_m, bo.inertia_factor(setup.ball.key)
+    g = bo.ground(ground_key)
+    run = bo.run_out(v_t, v_n, r * w_b, g, k, setup.gravity_m_s2)
+    vt1, vn1, rw1 = run["bounces"][0]
+    end = state[:2] + run["distance_m"] * heading[:2]
+    first = {"speed_after_m_s": math.hypot(vt1, vn1), "angle_after_deg": math.degrees(math.atan2(vn1, vt1)),
+             "spin_after_rpm": rw1 / r / RPM_RAD_S, "speed_before_m_s": math.hypot(v_t, v_n),
+             "spin_before_rpm": w_b / RPM_RAD_S}
+    court = ground_key == "hard_court"  # a court ball leaves the court after its bounce: no rest point
+    out = {"ground": ground_key, "total_m": None if court else float(end[0]),
+           "lateral_total_m": None if court else float(-end[1]) + 0.0,
+           "roll_m": None if court else float(end[0] - state[0]), "bounces": len(run["bounces"]),
+           "bounce": first, "time_to_rest_s": None if court else run["time_s"]}
+    after = None
+    if ground_key == "hard_court" and vn1 > bo.MIN_HOP_M_S:
+        # the arc after the first bounce, flown with the full air model (sidespin not kept)
+        az = -math.degrees(math.atan2(heading[1], heading[0]))
+        la = Launch(first["speed_after_m_s"], first["angle_after_deg"], az, abs(first["spin_after_rpm"]),
+                    0.0 if rw1 >= 0 else 180.0, 0.0, 0.0)
+        second = simulate(setup, la, record=True)
+        t2, y2, f2 = second.records[0]
+        y2 = y2.copy()
+        y2[0] += state[0]
+        y2[1] += state[1]
+        after = _sample_path(setup, (t2 + T[-1], y2, f2), n_samples=80)
+    return out, after
+
+
 def fly(setup: FlightSetup, launch: Launch, label: str = "Flight", check_distance_m: float | None = None,
-        **kw) -> Flight:
+        ground_key: str | None = None, **kw) -> Flight:
     """One flight with its sampled path and warnings (see :func:`flight_warnings`); with
-    ``check_distance_m``, where it crosses that distance (:func:`at_distance`) in ``at_check``."""
+    ``check_distance_m``, where it crosses that distance (:func:`at_distance`) in ``at_check``;
+    with ``ground_key`` (:data:`liftcore.bounce.GROUNDS`), the bounces and roll to rest in
+    ``run_out`` (and, on a hard court, the arc after the first bounce in the path)."""
     launch.validate()
     res = simulate(setup, launch, record=True, **kw)
     path = _sample_path(setup, res.records[0])
     check = at_distance(res.records[0], check_distance_m) if check_distance_m else None
+    run = None
+    if ground_key and bool(res.landed[0]):
+        run, after = _after_landing(setup, launch, res, ground_key)
+        if after is not None:
+            path = {k: np.concatenate([path[k], after[k]]) for k in path}
     return Flight(label=label, carry_m=float(res.carry_m[0]), peak_height_m=float(res.peak_height_m[0]),
                   flight_time_s=float(res.flight_time_s[0]), lateral_m=float(res.lateral_m[0]),
                   descent_angle_deg=float(res.descent_angle_deg[0]),
@@ -760,7 +805,7 @@ def fly(setup: FlightSetup, launch: Launch, label: str = "Flight", check_distanc
                   landing_spin_rpm=float(res.landing_spin_rpm[0]), landed=bool(res.landed[0]),
                   path=path, warnings=flight_warnings(setup, res, launch),
                   ball_key=setup.ball.key, model_key=setup.model_key,
-                  density_kg_m3=setup.density_kg_m3, at_check=check)
+                  density_kg_m3=setup.density_kg_m3, at_check=check, run_out=run)
 
 
 # ----------------------------------------------------------------------------- warnings

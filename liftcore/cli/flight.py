@@ -10,6 +10,7 @@ from liftcore.cli import add_json_flag
 from liftcore.cli.common import add_air_options, air_values, density_from_args, text_table
 from liftcore.errors import InputError, check_choice, check_number
 from liftcore.ballflight import MAX_CHECK_DISTANCE_M
+from liftcore.bounce import GROUND_KEYS
 from liftcore.studies import run_study
 
 
@@ -46,6 +47,10 @@ def add_parser(sub):
                    help="wind comes from, clockwise from downrange: 0 into the face, 180 from behind [deg]")
     g.add_argument("--wind-profile", default="uniform", help="uniform or power_law")
     g = p.add_argument_group("launch spread")
+    g.add_argument("--ground", choices=("ball_default", "none") + GROUND_KEYS, default="ball_default",
+                   help="after the first landing: bounces and roll to rest on this ground (default: the "
+                        "ball's usual one, medium turf for golf, a hard court for court balls; none for "
+                        "the others)")
     g.add_argument("--check-distance-m", type=float, metavar="D",
                    help="report where the ball is when it first crosses downrange distance D [m] "
                         "(at_check in --json; null if it lands first)")
@@ -79,6 +84,7 @@ def values_from_args(args) -> dict:
         **air_values(args),
         "wind_speed_m_s": args.wind_speed_m_s, "wind_from_deg": args.wind_from_deg,
         "wind_profile": args.wind_profile, "dispersion_n": args.dispersion, "dispersion_seed": args.seed,
+        "ground": args.ground,
     }
     if args.check_distance_m is not None:
         values["check_distance_m"] = check_number("check-distance-m", args.check_distance_m, "m", low=0.0,
@@ -121,7 +127,7 @@ def execute(args, progress):
     data = {k: js[k] for k in ("carry_m", "peak_height_m", "flight_time_s", "lateral_m",
                                "descent_angle_deg", "landing_speed_m_s", "warnings")}
     data.update({k: js[k] for k in ("ball", "coefficient_model", "air_density_kg_m3", "landing_spin_rpm",
-                                    "at_check")})
+                                    "at_check", "ground", "total_m", "roll_m", "bounce")})
     rows = [("Ball", f"{result.detail.setup.ball.name} ({result.detail.setup.model.label()})"),
             ("Air density", f"{js['air_density_kg_m3']:.4f} kg/m3"),
             ("Carry", f"{js['carry_m']:.2f} m"), ("Peak height", f"{js['peak_height_m']:.2f} m"),
@@ -135,6 +141,12 @@ def execute(args, progress):
         rows += [("Flights drawn", f"{d['n']}"),
                  ("Carry P05 / P50 / P95", f"{d['carry_m_p05']:.2f} / {d['carry_m_p50']:.2f} / {d['carry_m_p95']:.2f} m"),
                  ("Drift sd", f"{d['lateral_m_sd']:.2f} m")]
+    if js["bounce"] is not None:
+        b = js["bounce"]
+        rows.append(("First bounce", f"{b['speed_after_m_s']:.2f} m/s at {b['angle_after_deg']:.1f} deg up, spin "
+                                     f"{b['spin_after_rpm']:+.0f} rpm (+ backspin) on {js['ground']}"))
+        if js["total_m"] is not None:
+            rows.append(("Total to rest / roll", f"{js['total_m']:.2f} m / {js['roll_m']:.2f} m"))
     if args.check_distance_m is not None:
         c = js["at_check"]
         rows.append((f"At {args.check_distance_m:g} m downrange",

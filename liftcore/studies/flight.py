@@ -15,6 +15,7 @@ from liftcore import ballflight as bf
 from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
+from liftcore.bounce import BALL_GROUND, GROUND_KEYS, GROUNDS
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number, text
 from liftcore.studies import Charts, Headline, StudyResult, Tables, table_in_units
@@ -59,6 +60,12 @@ INPUTS = InputSpec(KIND, (
            help="Horizontal angle from the target line; positive aims to the right."),
     number("launch_height_m", "Launch height", "length", 1.0, 0.0, 100.0, section="Launch", step=0.1,
            help="Height of the ball above the landing ground at launch."),
+    choice("ground", "After landing", ("ball_default", "none") + GROUND_KEYS, default="ball_default",
+           labels=("The ball's usual ground", "Stop at the first landing")
+           + tuple(GROUNDS[k].label for k in GROUND_KEYS), section="Launch",
+           help="Bounces, slide and roll to rest (rigid-ground impact, Brody 1984; Cross 2002): golf "
+                "on medium turf and court balls on a hard court by default; the grounds' values are "
+                "from memory except the tennis rebound rule."),
     number("check_distance_m", "Check the ball at a distance (0 = none)", "distance", 0.0, 0.0,
            bf.MAX_CHECK_DISTANCE_M, section="Launch", step=1.0,
            help="Downrange distance of a wall, net or goal line: where the ball is (height, drift, "
@@ -228,6 +235,14 @@ class FlightDetail:
     compare_warnings: tuple = ()
     sweep: object = None
     fit: object = None
+
+
+def ground_of(values: dict) -> str | None:
+    """The ground key the inputs choose (the ball's usual one by default), or None for none."""
+    g = values.get("ground", "ball_default")
+    if g == "ball_default":
+        return BALL_GROUND.get(values["ball"])
+    return None if g == "none" else g
 
 
 def setup_from_values(values: dict, ball_key: str | None = None, altitude_m: float | None = None,
@@ -404,7 +419,8 @@ def comparison_flight(values: dict):
 def run(values: dict, progress=None, extra=None) -> StudyResult:
     setup, air = setup_from_values(values)
     launch = launch_from_values(values).validate()
-    main = bf.fly(setup, launch, label="This flight", check_distance_m=values["check_distance_m"] or None)
+    main = bf.fly(setup, launch, label="This flight", check_distance_m=values["check_distance_m"] or None,
+                  ground_key=ground_of(values))
     flights = [main]
     cmp_ws: tuple = ()
     cmp = comparison_flight(values)
@@ -430,6 +446,12 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         warnings.append(replace(w, subject=""))
     if fit is not None:
         warnings.extend(fit.warnings())
+    if main.run_out is not None:
+        g = GROUNDS[main.run_out["ground"]]
+        warnings.append(ModelWarning("after_landing_model",
+                                     f"bounce and roll on {g.label.lower()}: a rigid-ground impact (Brody 1984) with "
+                                     f"e {g.e:g}, friction {g.mu:g}, rolling resistance {g.mu_r:g} ({g.source}); real "
+                                     "turf gives way, so roll is uncertain by tens of per cent", "carry_m"))
     if setup.density_kg_m3 == 0.0:
         warnings.append(ModelWarning("vacuum", "air density 0: the flight is in vacuum (no drag, lift or "
                                      "spin decay)", ""))
@@ -447,6 +469,11 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     js["air_density_kg_m3"] = setup.density_kg_m3
     js["landing_spin_rpm"] = main.landing_spin_rpm
     js["at_check"] = main.at_check  # None without a check distance, or when the ball lands first
+    run = main.run_out
+    js["ground"] = None if run is None else run["ground"]
+    js["total_m"] = None if run is None else run["total_m"]
+    js["roll_m"] = None if run is None else run["roll_m"]
+    js["bounce"] = None if run is None else run["bounce"]
     if cmp is not None:
         js["comparison"] = {"label": cmp[0].label, **cmp[0].headline_dict(),
                             "warnings": [w.as_dict() for w in cmp_ws]}
@@ -528,7 +555,23 @@ def summary(result: StudyResult, system: str = "SI") -> str:
     return (f"The {result.detail.setup.ball.name.lower()} carries **{h['carry_m']}** along the target "
             f"line, peaks at **{h['peak_height_m']}**, stays up **{h['flight_time_s']}** and lands "
             f"{where} the line at **{h['landing_speed_m_s']}**, coming down at "
-            f"**{h['descent_angle_deg']}**.{check_sentence(result, system)}")
+            f"**{h['descent_angle_deg']}**.{run_out_sentence(result, system)}{check_sentence(result, system)}")
+
+
+def run_out_sentence(result: StudyResult, system: str = "SI") -> str:
+    """How far the ball runs on after landing, as a sentence (leading space), or ""."""
+    run = result.detail.flights[0].run_out
+    if run is None:
+        return ""
+    q = lambda x, kind: units.quantity_text(x, kind, system)  # noqa: E731
+    b = run["bounce"]
+    first = (f" On {GROUNDS[run['ground']].label.lower()} it bounces at **{q(b['speed_after_m_s'], 'ball_speed')}**, "
+             f"**{q(b['angle_after_deg'], 'angle')}** up")
+    if run["total_m"] is None:
+        spin = "backspin" if b["spin_after_rpm"] > 0 else "topspin"
+        return f"{first}, with **{q(abs(b['spin_after_rpm']), 'rotation')}** of {spin} (the path after it is drawn)."
+    return (f"{first}, and comes to rest **{q(run['total_m'], 'distance')}** downrange "
+            f"(**{q(run['roll_m'], 'distance')}** after landing).")
 
 
 def check_sentence(result: StudyResult, system: str = "SI") -> str:

@@ -1,0 +1,67 @@
+"""After the first landing: bounces, slide and roll to rest."""
+
+import json
+import math
+
+import pytest
+
+from liftcore import bounce as bo
+from liftcore.cli import main
+from liftcore.studies import flight, run_study
+
+TURF = bo.GROUNDS["turf_medium"]
+COURT = bo.GROUNDS["hard_court"]
+
+
+@pytest.mark.parametrize("v_t, v_n, r_w", [(20.0, 15.0, 5.0), (30.0, 3.0, -2.0), (5.0, 20.0, 8.0), (10.0, 4.0, -10.0)])
+@pytest.mark.parametrize("k", [0.4, 2 / 3])
+def test_an_impact_keeps_what_the_model_conserves(v_t, v_n, r_w, k):
+    """Brody (1984): v_n' = e v_n; the angular momentum about the contact point (v_t - k r w)
+    is unchanged; the slip never reverses (friction at most stops it)."""
+    vt1, vn1, rw1, grip = bo.impact(v_t, v_n, r_w, TURF, k)
+    assert vn1 == pytest.approx(TURF.e * v_n)
+    assert vt1 - k * rw1 == pytest.approx(v_t - k * r_w)
+    u0, u1 = v_t + r_w, vt1 + rw1
+    assert u0 * u1 >= -1e-12 and abs(u1) <= abs(u0) + 1e-12
+    if grip:
+        assert u1 == pytest.approx(0.0, abs=1e-12)  # it leaves rolling
+
+
+def test_the_ball_comes_to_rest_rolling():
+    run = bo.run_out(23.0, 15.6, 4.6, TURF, 0.4)
+    assert math.isfinite(run["distance_m"]) and math.isfinite(run["time_s"])
+    assert run["distance_m"] == pytest.approx(run["bounce_m"] + run["slide_m"] + run["roll_m"])
+    vt, vn, rw = run["bounces"][-1]
+    assert vn < bo.MIN_HOP_M_S
+    # the roll: v_roll^2 / (2 mu_r g / (1 + k)) from the speed at which the slip stops
+    v_roll = vt - 0.4 * (vt + rw) / 1.4
+    assert run["roll_m"] == pytest.approx(v_roll ** 2 / (2 * TURF.mu_r * 9.80665 / 1.4))
+
+
+def test_the_tennis_court_rebound_follows_the_ball_rule():
+    """ITF Rules of Tennis, Appendix I (from memory): dropped from 254 cm onto concrete, a ball
+    rebounds 135 to 147 cm; e = sqrt(h'/h)."""
+    assert math.sqrt(135 / 254) <= COURT.e <= math.sqrt(147 / 254)
+
+
+def test_a_drive_runs_on_and_a_serve_bounces(capsys):
+    assert main(["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "11", "--spin-rpm", "2700",
+                 "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    assert d["ground"] == "turf_medium" and d["total_m"] > d["carry_m"] and d["roll_m"] > 0
+    assert main(["flight", "--ball", "tennis", "--speed-m-s", "50", "--elevation-deg", "-4", "--spin-rpm", "2500",
+                 "--spin-axis-deg", "180", "--launch-height-m", "2.6", "--json"]) == 0
+    t = json.loads(capsys.readouterr().out)
+    assert t["total_m"] is None and {"speed_after_m_s", "angle_after_deg", "spin_after_rpm"} <= set(t["bounce"])
+    assert t["bounce"]["speed_after_m_s"] < t["bounce"]["speed_before_m_s"]
+    assert main(["flight", "--ball", "golf", "--speed-m-s", "70", "--elevation-deg", "11", "--spin-rpm", "2700",
+                 "--ground", "none", "--json"]) == 0
+    assert json.loads(capsys.readouterr().out)["total_m"] is None
+
+
+def test_the_serve_path_goes_on_after_the_bounce():
+    r = run_study("flight", {"ball": "tennis", "speed_m_s": 50.0, "elevation_deg": -4.0, "spin_rpm": 2500.0,
+                             "spin_axis_deg": 180.0, "launch_height_m": 2.6})
+    f = r.detail.flights[0]
+    assert f.path["x_m"].max() > f.carry_m + 1.0  # the arc after the bounce is in the path
+    assert "bounces at" in flight.summary(r) and "the path after it is drawn" in flight.summary(r)
