@@ -79,7 +79,38 @@ def _num(value, kind, system, digits: int = 3) -> str:
 DESCENT_RAY = 0.12
 
 
-def side_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
+#: Colour of obstacles and targets (grey: context, not a flight).
+OBSTACLE_COLOUR = "#555555"
+
+
+def _draw_obstacles(fig: go.Figure, obstacles, system: str, view: str) -> None:
+    """Walls, nets and goal frames as thick grey lines (side view: height; top view: width) and
+    landing boxes as outlined rectangles, each named."""
+    for o in obstacles:
+        d = float(_u(o.distance_m, "distance", system))
+        if o.kind == "land":
+            if view == "top":
+                e, w = float(_u(o.end_m, "distance", system)), float(_u(o.width_m / 2, "distance", system))
+                fig.add_shape(type="rect", x0=d, x1=e, y0=-w, y1=w, line=dict(color=OBSTACLE_COLOUR, width=2, dash="dot"))
+            else:
+                fig.add_shape(type="line", x0=d, x1=float(_u(o.end_m, "distance", system)), y0=0, y1=0,
+                              line=dict(color=OBSTACLE_COLOUR, width=6))
+            fig.add_annotation(x=d, y=0, text=o.name, showarrow=False, yshift=-14, xanchor="left",
+                               font=dict(size=FONT_SIZE - 3, color=OBSTACLE_COLOUR))
+            continue
+        if view == "side":
+            h = float(_u(o.height_m, "length", system))
+            fig.add_shape(type="line", x0=d, x1=d, y0=0, y1=h, line=dict(color=OBSTACLE_COLOUR, width=6))
+        elif o.width_m > 0:
+            w = float(_u(o.width_m / 2, "distance", system))
+            fig.add_shape(type="line", x0=d, x1=d, y0=-w, y1=w, line=dict(color=OBSTACLE_COLOUR, width=6))
+        else:
+            fig.add_vline(x=d, line=dict(color=OBSTACLE_COLOUR, width=3, dash="dash"))
+        fig.add_annotation(x=d, y=float(_u(o.height_m, "length", system)) if view == "side" else 0, text=o.name,
+                           showarrow=False, yshift=12, font=dict(size=FONT_SIZE - 3, color=OBSTACLE_COLOUR))
+
+
+def side_view(flights, system: str = "SI", numbers: bool = True, obstacles=()) -> go.Figure:
     """How high and how far? Height against distance downrange. With ``numbers`` the first
     flight carries its results on the picture: the peak height at the apex, the carry at the
     landing point, and the descent angle drawn where it lands (with the landing speed)."""
@@ -96,15 +127,16 @@ def side_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
                                                + "<extra></extra>"))
     if numbers and flights:
         _numbers_on_side_view(fig, flights[0], system)
+    _draw_obstacles(fig, obstacles, system, "side")
     fig.update_yaxes(rangemode="tozero")
     return finish(fig)
 
 
 def _numbers_on_side_view(fig: go.Figure, f, system: str) -> None:
     p = f.path
-    k = int(np.argmax(p["z_m"]))
+    k = int(np.argmax(np.where(p["x_m"] <= f.carry_m + 1e-9, p["z_m"], -np.inf)))  # before any bounce
     x_peak, z_peak = _u(p["x_m"][k], "distance", system), _u(p["z_m"][k], "length", system)
-    x_land = float(_u(p["x_m"][-1], "distance", system))  # the path ends where it lands
+    x_land = float(_u(f.carry_m, "distance", system))  # the first landing (a path may go on after a bounce)
     # the descent direction drawn back from the landing point, and a level line to read it on
     a = np.radians(f.descent_angle_deg)
     ray_x = DESCENT_RAY * max(abs(x_land), 1e-9)
@@ -126,7 +158,7 @@ def _numbers_on_side_view(fig: go.Figure, f, system: str) -> None:
     fig.update_yaxes(range=[0.0, z_peak * 1.32])  # room above the apex for its label
 
 
-def top_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
+def top_view(flights, system: str = "SI", numbers: bool = True, obstacles=()) -> go.Figure:
     """How much does it curve? Drift to the side against distance downrange (seen from above).
     With ``numbers`` the first flight's drift is written at its landing point."""
     fig = base_figure("Top view: drift against distance", _lbl("Downrange", "distance", system),
@@ -138,7 +170,7 @@ def top_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
     fig.add_hline(y=0, line=dict(color="#777", width=1, dash="dot"))
     if numbers and flights:
         f = flights[0]
-        x_land, y_land = _u(f.path["x_m"][-1], "distance", system), _u(f.path["lateral_m"][-1], "distance", system)
+        x_land, y_land = _u(f.carry_m, "distance", system), _u(f.lateral_m, "distance", system)
         side = "right" if f.lateral_m > 0 else "left" if f.lateral_m < 0 else ""
         drift = _num(abs(f.lateral_m), "distance", system)
         # below the curve's end as seen (right drift is drawn downward), clear of the path
@@ -153,6 +185,7 @@ def top_view(flights, system: str = "SI", numbers: bool = True) -> go.Figure:
     else:
         # right positive reads naturally with "right" drawn downward when looking downrange from above
         fig.update_yaxes(autorange="reversed")
+    _draw_obstacles(fig, obstacles, system, "top")
     return finish(fig)
 
 

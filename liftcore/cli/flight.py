@@ -51,6 +51,10 @@ def add_parser(sub):
                    help="after the first landing: bounces and roll to rest on this ground (default: the "
                         "ball's usual one, medium turf for golf, a hard court for court balls; none for "
                         "the others)")
+    g.add_argument("--obstacle", choices=("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis"),
+                   default="none", help="check a preset from the governing bodies' rules: margins in 'obstacles'")
+    g.add_argument("--goal-distance-m", type=float, default=20.0,
+                   help="free kick: from the ball to the goal line [m] (default 20; the wall stands at 9.15 m)")
     g.add_argument("--check-distance-m", type=float, metavar="D",
                    help="report where the ball is when it first crosses downrange distance D [m] "
                         "(at_check in --json; null if it lands first)")
@@ -84,7 +88,8 @@ def values_from_args(args) -> dict:
         **air_values(args),
         "wind_speed_m_s": args.wind_speed_m_s, "wind_from_deg": args.wind_from_deg,
         "wind_profile": args.wind_profile, "dispersion_n": args.dispersion, "dispersion_seed": args.seed,
-        "ground": args.ground,
+        "ground": args.ground, "obstacle": args.obstacle,
+        "goal_distance_m": check_number("goal-distance-m", args.goal_distance_m, "m", low=10.15, high=60.0),
     }
     if args.check_distance_m is not None:
         values["check_distance_m"] = check_number("check-distance-m", args.check_distance_m, "m", low=0.0,
@@ -127,7 +132,7 @@ def execute(args, progress):
     data = {k: js[k] for k in ("carry_m", "peak_height_m", "flight_time_s", "lateral_m",
                                "descent_angle_deg", "landing_speed_m_s", "warnings")}
     data.update({k: js[k] for k in ("ball", "coefficient_model", "air_density_kg_m3", "landing_spin_rpm",
-                                    "at_check", "ground", "total_m", "roll_m", "bounce")})
+                                    "at_check", "ground", "total_m", "roll_m", "bounce", "obstacles")})
     rows = [("Ball", f"{result.detail.setup.ball.name} ({result.detail.setup.model.label()})"),
             ("Air density", f"{js['air_density_kg_m3']:.4f} kg/m3"),
             ("Carry", f"{js['carry_m']:.2f} m"), ("Peak height", f"{js['peak_height_m']:.2f} m"),
@@ -147,6 +152,10 @@ def execute(args, progress):
                                      f"{b['spin_after_rpm']:+.0f} rpm (+ backspin) on {js['ground']}"))
         if js["total_m"] is not None:
             rows.append(("Total to rest / roll", f"{js['total_m']:.2f} m / {js['roll_m']:.2f} m"))
+    for c in js["obstacles"]:
+        where = "" if c["height_m"] is None or c["kind"] == "land" else f" (height {c['height_m']:.2f} m there)"
+        rows.append((c["name"].capitalize(), f"{'clears' if c['clears'] else 'misses'} by {abs(c['margin_m']):.3f} m"
+                                             f"{where}; {c['rule']}"))
     if args.check_distance_m is not None:
         c = js["at_check"]
         rows.append((f"At {args.check_distance_m:g} m downrange",

@@ -66,6 +66,18 @@ INPUTS = InputSpec(KIND, (
            help="Bounces, slide and roll to rest (rigid-ground impact, Brody 1984; Cross 2002): golf "
                 "on medium turf and court balls on a hard court by default; the grounds' values are "
                 "from memory except the tennis rebound rule."),
+    choice("obstacle", "Does it clear?", ("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis",
+                                          "custom"), default="none",
+           labels=("No obstacle", "Free kick: wall and goal", "Tennis serve: net and service boxes",
+                   "Volleyball serve: net and court", "Table tennis: net and far half", "A wall of my own"),
+           section="Obstacles",
+           help="Obstacles and targets from the governing bodies' rules (cited on the page), drawn on the side "
+                "and top views with the margin by which the ball clears or misses each."),
+    number("goal_distance_m", "Distance to the goal line", "distance", 20.0, 10.15, 60.0, section="Obstacles",
+           step=0.5, help="Free kick: from the ball to the goal line; the wall stands 9.15 m from the ball."),
+    number("wall_distance_m", "Your wall: distance", "distance", 10.0, 0.1, 500.0, section="Obstacles", step=0.5),
+    number("wall_height_m", "Your wall: height", "length", 2.0, 0.0, 100.0, section="Obstacles", step=0.1),
+    number("wall_width_m", "Your wall: width (0 = endless)", "length", 0.0, 0.0, 100.0, section="Obstacles", step=0.5),
     number("check_distance_m", "Check the ball at a distance (0 = none)", "distance", 0.0, 0.0,
            bf.MAX_CHECK_DISTANCE_M, section="Launch", step=1.0,
            help="Downrange distance of a wall, net or goal line: where the ball is (height, drift, "
@@ -127,6 +139,10 @@ INPUTS = INPUTS.with_rules({
     "constant_cd": lambda v: v["coefficient_model"] == "constant",
     "constant_cl": lambda v: v["coefficient_model"] == "constant",
     "aero_table_csv": lambda v: v["coefficient_model"] == "table",
+    "goal_distance_m": lambda v: v["obstacle"] == "free_kick",
+    "wall_distance_m": lambda v: v["obstacle"] == "custom",
+    "wall_height_m": lambda v: v["obstacle"] == "custom",
+    "wall_width_m": lambda v: v["obstacle"] == "custom",
     "density_kg_m3": lambda v: bool(v["set_density"]),
     "wind_ref_height_m": lambda v: v["wind_profile"] == "power_law",
     "wind_exponent": lambda v: v["wind_profile"] == "power_law",
@@ -235,6 +251,18 @@ class FlightDetail:
     compare_warnings: tuple = ()
     sweep: object = None
     fit: object = None
+    #: The obstacles of the chosen preset and how the flight clears each (:mod:`liftcore.obstacles`).
+    obstacles: tuple = ()
+    checks: tuple = ()
+
+
+def obstacles_of(values: dict) -> tuple:
+    """The obstacles the inputs choose (none by default)."""
+    from liftcore import obstacles as ob
+
+    return ob.preset(values.get("obstacle", "none"), values.get("goal_distance_m", 20.0),
+                     (values.get("wall_distance_m", 10.0), values.get("wall_height_m", 2.0),
+                      values.get("wall_width_m", 0.0)))
 
 
 def ground_of(values: dict) -> str | None:
@@ -450,8 +478,11 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         g = GROUNDS[main.run_out["ground"]]
         warnings.append(ModelWarning("after_landing_model",
                                      f"bounce and roll on {g.label.lower()}: a rigid-ground impact (Brody 1984) with "
-                                     f"e {g.e:g}, friction {g.mu:g}, rolling resistance {g.mu_r:g} ({g.source}); real "
-                                     "turf gives way, so roll is uncertain by tens of per cent", "carry_m"))
+                                     f"e {g.e:g}, friction {g.mu:g}, rolling resistance {g.mu_r:g} ({g.source}); "
+                                     + ("real turf gives way, so roll is uncertain by tens of per cent"
+                                        if main.run_out["total_m"] is not None else
+                                        "the bounce also depends on the court's surface and the ball's wear"),
+                                     "carry_m"))
     if setup.density_kg_m3 == 0.0:
         warnings.append(ModelWarning("vacuum", "air density 0: the flight is in vacuum (no drag, lift or "
                                      "spin decay)", ""))
@@ -469,6 +500,11 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     js["air_density_kg_m3"] = setup.density_kg_m3
     js["landing_spin_rpm"] = main.landing_spin_rpm
     js["at_check"] = main.at_check  # None without a check distance, or when the ball lands first
+    from liftcore import obstacles as ob
+
+    obstacles = obstacles_of(values)
+    checks = tuple(ob.check(main.path, main.carry_m, main.lateral_m, o) for o in obstacles)
+    js["obstacles"] = list(checks)
     run = main.run_out
     js["ground"] = None if run is None else run["ground"]
     js["total_m"] = None if run is None else run["total_m"]
@@ -492,7 +528,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
                                            "flight_time_s": disp.flight_time_s,
                                            **{f"launch_{k}": v for k, v in disp.draws.items()}})
     return StudyResult(KIND, dict(values), heads, merge(warnings), figs, Tables(tables),
-                       FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws, sw, fit), js)
+                       FlightDetail(tuple(flights), setup, launch, air, disp, cmp_ws, sw, fit, obstacles, checks), js)
 
 
 # ----------------------------------------------------------------------------- display units
@@ -526,16 +562,16 @@ def sweep_table(sw: bf.SweepResult, values: dict):
 
 def flight_figures(flights, disp=None, system: str = "SI", sw=None, values=None) -> Charts:
     """(title, figure) pairs of the study in ``system``'s display units."""
-    def draw(name, *args):  # plotly is imported when the first chart is drawn, not before
+    def draw(name, *args, **kw):  # plotly is imported when the first chart is drawn, not before
         def make():
             from liftcore import figures_ball as fb
 
-            return getattr(fb, name)(*args, system)
+            return getattr(fb, name)(*args, system, **kw)
         return make
 
     figs = [("Flight path in 3-D", draw("trajectory_3d", flights)),
-            ("Side view", draw("side_view", flights)),
-            ("Top view", draw("top_view", flights)),
+            ("Side view", draw("side_view", flights, obstacles=obstacles_of(values or {}))),
+            ("Top view", draw("top_view", flights, obstacles=obstacles_of(values or {}))),
             ("Along the flight", draw("along_flight", flights))]
     if disp is not None:
         figs.append(("Landing spread", draw("dispersion_figure", disp)))
@@ -555,7 +591,8 @@ def summary(result: StudyResult, system: str = "SI") -> str:
     return (f"The {result.detail.setup.ball.name.lower()} carries **{h['carry_m']}** along the target "
             f"line, peaks at **{h['peak_height_m']}**, stays up **{h['flight_time_s']}** and lands "
             f"{where} the line at **{h['landing_speed_m_s']}**, coming down at "
-            f"**{h['descent_angle_deg']}**.{run_out_sentence(result, system)}{check_sentence(result, system)}")
+            f"**{h['descent_angle_deg']}**.{run_out_sentence(result, system)}{obstacle_sentence(result, system)}"
+            f"{check_sentence(result, system)}")
 
 
 def run_out_sentence(result: StudyResult, system: str = "SI") -> str:
@@ -572,6 +609,19 @@ def run_out_sentence(result: StudyResult, system: str = "SI") -> str:
         return f"{first}, with **{q(abs(b['spin_after_rpm']), 'rotation')}** of {spin} (the path after it is drawn)."
     return (f"{first}, and comes to rest **{q(run['total_m'], 'distance')}** downrange "
             f"(**{q(run['roll_m'], 'distance')}** after landing).")
+
+
+def obstacle_sentence(result: StudyResult, system: str = "SI") -> str:
+    """How the ball clears or misses each obstacle, as a sentence (leading space), or ""."""
+    parts = []
+    words = {("over", True): "clears the {n} by **{m}**", ("over", False): "is **{m}** too low for the {n}",
+             ("through", True): "goes into the {n} with **{m}** to spare", ("through", False): "misses the {n} by **{m}**",
+             ("land", True): "lands in the {n}, **{m}** inside", ("land", False): "lands **{m}** outside the {n}"}
+    for c in result.detail.checks:
+        m = units.quantity_text(abs(c["margin_m"]), "length", system)
+        text = "lands **{m}** short of the {n}" if c.get("lands_short") else words[(c["kind"], c["clears"])]
+        parts.append(text.format(n=c["name"], m=m))
+    return (" It " + ", ".join(parts) + ".") if parts else ""
 
 
 def check_sentence(result: StudyResult, system: str = "SI") -> str:
