@@ -84,30 +84,28 @@ OBSTACLE_COLOUR = "#555555"
 
 
 def _draw_obstacles(fig: go.Figure, obstacles, system: str, view: str) -> None:
-    """Walls, nets and goal frames as thick grey lines (side view: height; top view: width) and
-    landing boxes as outlined rectangles, each named."""
-    for o in obstacles:
+    """Walls, nets and goal frames as thick grey lines (side view: their height; top view: their
+    width) and landing areas as dotted outlines, each named in the legend (nothing written over
+    the flight's own labels)."""
+    for i, o in enumerate(obstacles):
         d = float(_u(o.distance_m, "distance", system))
+        line = dict(color=OBSTACLE_COLOUR, width=6 if o.kind != "land" else 3, dash="solid" if o.kind != "land" else "dot")
         if o.kind == "land":
-            if view == "top":
-                e, w = float(_u(o.end_m, "distance", system)), float(_u(o.width_m / 2, "distance", system))
-                fig.add_shape(type="rect", x0=d, x1=e, y0=-w, y1=w, line=dict(color=OBSTACLE_COLOUR, width=2, dash="dot"))
-            else:
-                fig.add_shape(type="line", x0=d, x1=float(_u(o.end_m, "distance", system)), y0=0, y1=0,
-                              line=dict(color=OBSTACLE_COLOUR, width=6))
-            fig.add_annotation(x=d, y=0, text=o.name, showarrow=False, yshift=-14, xanchor="left",
-                               font=dict(size=FONT_SIZE - 3, color=OBSTACLE_COLOUR))
-            continue
-        if view == "side":
-            h = float(_u(o.height_m, "length", system))
-            fig.add_shape(type="line", x0=d, x1=d, y0=0, y1=h, line=dict(color=OBSTACLE_COLOUR, width=6))
+            e = float(_u(o.end_m, "distance", system))
+            w = float(_u(o.width_m / 2, "distance", system))
+            x, y = ([d, e], [0.0, 0.0]) if view == "side" else ([d, e, e, d, d], [-w, -w, w, w, -w])
+        elif view == "side":
+            x, y = [d, d], [0.0, float(_u(o.height_m, "length", system))]
         elif o.width_m > 0:
             w = float(_u(o.width_m / 2, "distance", system))
-            fig.add_shape(type="line", x0=d, x1=d, y0=-w, y1=w, line=dict(color=OBSTACLE_COLOUR, width=6))
-        else:
-            fig.add_vline(x=d, line=dict(color=OBSTACLE_COLOUR, width=3, dash="dash"))
-        fig.add_annotation(x=d, y=float(_u(o.height_m, "length", system)) if view == "side" else 0, text=o.name,
-                           showarrow=False, yshift=12, font=dict(size=FONT_SIZE - 3, color=OBSTACLE_COLOUR))
+            x, y = [d, d], [-w, w]
+        else:  # a net across the whole width: drawn over the view's height
+            fig.add_vline(x=d, line=dict(color=OBSTACLE_COLOUR, width=4))
+            x, y = [d], [0.0]
+            line = dict(color=OBSTACLE_COLOUR, width=4)
+        what = {"over": "to clear", "through": "to go into", "land": "to land in"}[o.kind]
+        fig.add_trace(go.Scatter(x=x, y=y, mode="lines", line=line, name=f"{o.name} ({what})", meta="context",
+                                 hovertemplate=f"{o.name}: {o.rule}<extra></extra>"))
 
 
 def side_view(flights, system: str = "SI", numbers: bool = True, obstacles=()) -> go.Figure:

@@ -47,5 +47,5 @@ def test_a_serve_and_a_free_kick_say_how_they_clear(capsys):
                              "spin_axis_deg": -60.0, "obstacle": "free_kick", "goal_distance_m": 20.0})
     assert [c["name"] for c in r.json["obstacles"]] == ["wall", "goal"]
     assert "the wall by" in flight.summary(r)
-    shapes = r.figures["Side view"].layout.shapes
-    assert len(shapes) == 2  # the wall and the goal frame drawn
+    names = [t.name for t in r.figures["Side view"].data]
+    assert "wall (to clear)" in names and "goal (to go into)" in names  # drawn and named
