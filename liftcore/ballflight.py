@@ -282,6 +282,10 @@ class _Rhs:
         R5[3:5] = R5[0:2]
         return R5
 
+    def coefficients_of(self, S, Re, V, w, P):
+        """(CD, CL) per column: the setup's model (``P`` rows beyond 8 unused here)."""
+        return self.coef(S, Re, V, w * (1.0 / RPM_RAD_S))
+
     def coefficients(self, Y):
         """(V_rel, S, Re, CD, CL) at states Y (unscaled model coefficients)."""
         R = self.rel5(Y)[0:3]
@@ -308,7 +312,7 @@ class _Rhs:
         S = self.r * w / V
         Re = V * self.d_over_nu
         self.last = (V, S, Re)
-        CD, CL = self.coef(S, Re, V, w * (1.0 / RPM_RAD_S))
+        CD, CL = self.coefficients_of(S, Re, V, w, P)
         a = P[0] * CD * V
         b = P[1] * CL * V
         cross = P[2:5] * R5[2:5] - P[5:8] * R5[1:4]
@@ -316,6 +320,41 @@ class _Rhs:
         F[5] -= self.g
         F[6] = (-self.decay) * w * V
         return F
+
+
+class _CurveRhs(_Rhs):
+    """The right-hand side with each column's own curves (the track fit's ``curve`` mode):
+    CD = P[8] + P[9] S and CL = P[11] tanh(P[10] S / P[11]) (lift rising with slope P[10] and
+    levelling off at P[11])."""
+
+    def coefficients_of(self, S, Re, V, w, P):
+        return curve_coefficients(S, P[8], P[9], P[10], P[11])
+
+
+def curve_coefficients(S, cd0, cd_s, cl_slope, cl_max):
+    """Drag with a spin term and lift rising to a saturation, over spin parameter S.
+
+    Parameters
+    ----------
+    S : float or ndarray
+        Spin parameter r omega / V. [-]
+    cd0, cd_s : float or ndarray
+        CD at no spin, and its rise per unit S. [-]
+    cl_slope, cl_max : float or ndarray
+        dCL/dS at S = 0, and the level CL tends to. [-]
+
+    Returns
+    -------
+    (CD, CL)
+
+    Notes
+    -----
+    CD = cd0 + cd_s S;  CL = cl_max tanh(cl_slope S / cl_max): linear at small S, saturating at
+    high S, the two behaviours spinning-ball lift measurements show (e.g. Nathan 2008; Sawicki
+    et al. 2003), in the plainest smooth form with two parameters.
+    """
+    S = np.asarray(S, dtype=float)
+    return cd0 + cd_s * S, cl_max * np.tanh(cl_slope * S / cl_max)
 
 
 def _params(setup: FlightSetup, axis, n, cd_scale=None, cl_scale=None):
@@ -1112,11 +1151,14 @@ TRACK_TIME_LIMIT_S = 86400.0
 MIN_TRACK_STEP_S = 1e-4
 #: Largest launch speed component the track fit may try. [m/s]
 FIT_SPEED_LIMIT_M_S = 200.0
-#: Range of the two fitted coefficients (CD or its scale, CL or its scale). [-]
+#: Range of the fitted coefficients: CD (or its scale), CL (or its scale); in the curve mode
+#: CD at no spin, its rise per unit S, the lift slope and the lift's level. [-]
 FIT_BOUNDS = ((0.0, 5.0), (-3.0, 5.0))
+CURVE_BOUNDS = ((0.0, 2.0), (-2.0, 5.0), (0.0, 20.0), (0.01, 3.0))
+CURVE_NAMES = ("CD at no spin", "CD rise per unit S", "CL slope at S = 0", "CL level")
 #: RMS miss of the fitted flights above which the fit is warned about. [m]
 FIT_RMS_WARN_M = 1.0
-FIT_MODES = ("constant", "scale")
+FIT_MODES = ("constant", "scale", "curve")
 
 
 def read_tracks(source) -> "pd.DataFrame":
@@ -1214,6 +1256,20 @@ class FitResult:
 
         return pd.DataFrame({"parameter": self.names, "value": self.values, "sd": self.sd})
 
+    @property
+    def coefficient_count(self) -> int:
+        """How many of :attr:`names` are coefficients (the rest are launch states)."""
+        return 4 if self.mode == "curve" else 2
+
+    def curve_table(self, s_max: float = 0.6, points: int = 13) -> str:
+        """The fitted curves as an aerodynamic table (CSV text S, CD, CL) to fly again with
+        :func:`liftcore.balls.table_model`; only for the ``curve`` mode."""
+        if self.mode != "curve":
+            raise ValueError("only curve fits give a table (constants and scales are numbers)")
+        S = np.linspace(0.0, s_max, points)
+        cd, cl = curve_coefficients(S, *self.values[:4])
+        return "S,CD,CL\n" + "".join(f"{a:.4g},{b:.5g},{c:.5g}\n" for a, b, c in zip(S, cd, cl))
+
     def warnings(self) -> tuple:
         """What makes the fitted values doubtful: a search that stopped before it converged, a
         coefficient held at its bound, or positions missed by more than :data:`FIT_RMS_WARN_M`."""
@@ -1222,7 +1278,7 @@ class FitResult:
             out.append(ModelWarning("fit_not_converged", f"the fit stopped before it converged after "
                                     f"{self.nfev} evaluations ({self.message.rstrip('.')}): the values "
                                     "are the last tried, not a best fit", "", "invalid"))
-        for i, (low, high) in enumerate(FIT_BOUNDS):
+        for i, (low, high) in enumerate(CURVE_BOUNDS if self.mode == "curve" else FIT_BOUNDS):
             v = float(self.values[i])
             if math.isclose(v, low, abs_tol=1e-6) or math.isclose(v, high, abs_tol=1e-6):
                 out.append(ModelWarning("fit_at_bound", f"{self.names[i]} ended at its bound {v:g} "
@@ -1275,13 +1331,19 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
     df = read_tracks(tracks)
     groups = [(str(k), g.sort_values("t")) for k, g in df.groupby("flight", sort=False)]
     nf = len(groups)
+    bounds = FIT_BOUNDS
     if mode == "constant":
         setup = replace(setup, model_key="constant", aero_table=None)
         names = ["CD", "CL"]
         p0 = [0.35, 0.2]
+    elif mode == "curve":
+        names = list(CURVE_NAMES)
+        p0 = [0.3, 0.1, 1.5, 0.3]
+        bounds = CURVE_BOUNDS
     else:
         names = ["CD scale", "CL scale"]
         p0 = [1.0, 1.0]
+    nc = len(names)  # coefficient parameters before each flight's six launch-state ones
     t0s = [float(g["t"].iloc[0]) for _, g in groups]
     obs_t = [g["t"].to_numpy() - t0 for (_, g), t0 in zip(groups, t0s)]
     obs_p = [np.column_stack([g["x"].to_numpy(), -g["y"].to_numpy(), g["z"].to_numpy()])
@@ -1304,10 +1366,9 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
         k = theta_cols.shape[1]
         Y0 = np.empty((7, nf * k))
         axis = np.empty((3, nf * k))
-        cd = np.tile(theta_cols[0][:, None], (1, nf)).ravel()
-        cl = np.tile(theta_cols[1][:, None], (1, nf)).ravel()
+        coefs = [np.tile(theta_cols[i][:, None], (1, nf)).ravel() for i in range(nc)]
         for j in range(nf):
-            st = theta_cols[2 + 6 * j: 8 + 6 * j]  # (6, k)
+            st = theta_cols[nc + 6 * j: nc + 6 + 6 * j]  # (6, k)
             cols = np.arange(k) * nf + j
             Y0[0:3, cols] = st[0:3]
             Y0[3:6, cols] = st[3:6]
@@ -1318,14 +1379,17 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
             az = np.degrees(np.arctan2(-v[1], v[0]))
             _, ax = launch_vectors(Launch(sp, el, az, spin_rpm, spin_axis_deg, rifle_deg, 0.0))
             axis[:, cols] = ax
-        return Y0, axis, cd, cl
+        return Y0, axis, coefs
 
-    rhs = _Rhs(setup)
+    rhs = _CurveRhs(setup) if mode == "curve" else _Rhs(setup)
 
     def model_positions(theta_cols):
-        Y0, axis, cd, cl = unpack(theta_cols)
+        Y0, axis, coefs = unpack(theta_cols)
         n = Y0.shape[1]
-        P = _params(setup, axis, n, cd, cl)
+        if mode == "curve":  # scales 1; the curves' parameters in rows 8-11
+            P = np.vstack([_params(setup, axis, n, np.ones(n), np.ones(n)), np.vstack(coefs)])
+        else:
+            P = _params(setup, axis, n, coefs[0], coefs[1])
         tg, Ys, Fs = _rk4_grid(rhs, Y0, P, t_end, dt)
         k = theta_cols.shape[1]
         out = np.empty((m_obs, k))
@@ -1353,8 +1417,8 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
     # tracks' limit and its velocity within the launch speeds the product accepts (an outlier
     # cannot send the search to speeds that overflow the integration).
     state_hi = np.array([TRACK_POSITION_LIMIT_M] * 3 + [FIT_SPEED_LIMIT_M_S] * 3)
-    lo = np.concatenate([[b[0] for b in FIT_BOUNDS], np.tile(-state_hi, nf)])
-    hi = np.concatenate([[b[1] for b in FIT_BOUNDS], np.tile(state_hi, nf)])
+    lo = np.concatenate([[b[0] for b in bounds], np.tile(-state_hi, nf)])
+    hi = np.concatenate([[b[1] for b in bounds], np.tile(state_hi, nf)])
     x0 = np.clip(x0, lo, hi)
     sol = least_squares(fun, x0, jac=jac, bounds=(lo, hi), method="trf", x_scale="jac",
                         max_nfev=60)
@@ -1374,8 +1438,8 @@ def fit_tracks(setup: FlightSetup, tracks, spin_rpm: float, spin_axis_deg: float
     vals = sol.x.copy()
     # report lateral quantities right positive
     for j in range(nf):
-        vals[2 + 6 * j + 1] *= -1.0  # y0
-        vals[2 + 6 * j + 4] *= -1.0  # vy0
+        vals[nc + 6 * j + 1] *= -1.0  # y0
+        vals[nc + 6 * j + 4] *= -1.0  # vy0
     res_rows, fit_rows = [], []
     model_pos = (r + target).reshape(-1, 3)
     rr = r.reshape(-1, 3)

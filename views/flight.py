@@ -311,12 +311,16 @@ def _fit_tab(values):
     except InputError as exc:
         st.error(str(exc), icon=":material/error:")
         return
-    a, sa = fit.parameter(fit.names[0])
-    b, sb = fit.parameter(fit.names[1])
-    c = st.columns(3)
-    c[0].metric(fit.names[0], f"{a:.4f} ± {sa:.4f}")
-    c[1].metric(fit.names[1], f"{b:.4f} ± {sb:.4f}")
-    c[2].metric("RMS miss", number_text(fit.rms_m, "length"))
+    coefs = fit.names[:fit.coefficient_count]
+    c = st.columns(len(coefs) + 1)
+    for i, name in enumerate(coefs):
+        value, sd = fit.parameter(name)
+        c[i].metric(name, f"{value:.4f} ± {sd:.4f}")
+    c[-1].metric("RMS miss", number_text(fit.rms_m, "length"))
+    if fit.mode == "curve":
+        st.download_button("Save the fitted curves as a table (.csv)", fit.curve_table().encode(),
+                           file_name="fitted_curves.csv", mime="text/csv", key="flight_fit_table",
+                           help="S, CD, CL: paste it as *Your own table* (or --aero-table) to fly with it.")
     st.caption("± one standard deviation from the Jacobian at the solution (assumes independent, equal "
                f"noise on every coordinate); {fit.nfev:,} evaluations of the residuals, {fit.dof:,} degrees of freedom. "
                f"{fit.message}")

@@ -196,7 +196,8 @@ FIT_FIELDS = (
     choice("fit_source", "Tracks", ("demo", "file"), default="demo",
            labels=("Invented demo tracks (shipped)", "My CSV file"), section=_FIT, advanced=True),
     choice("fit_mode", "Fit", bf.FIT_MODES, default="constant",
-           labels=("Constant CD and CL", "Scale factors on the chosen model"), section=_FIT,
+           labels=("Constant CD and CL", "Scale factors on the chosen model",
+                   "Curves: CD = a + b S, CL rising to a level (tanh)"), section=_FIT,
            advanced=True),
     flag("fit_in_report", "Put the fit in the handout", False, section=_FIT, advanced=True,
          help="The fitted coefficients with their uncertainty in the handout and `run` (your own "
@@ -521,7 +522,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         tables["fit"] = fit.table
         js["fit"] = {"mode": fit.mode, "rms_m": fit.rms_m,
                      **{name: {"value": v, "sd": sd} for name, (v, sd) in
-                        ((n, fit.parameter(n)) for n in fit.names[:2])}}
+                        ((n, fit.parameter(n)) for n in fit.names[:fit.coefficient_count])}}
     if disp is not None:
         js["dispersion"] = disp.summary()
         tables["spread"] = lambda: _frame({"carry_m": disp.carry_m, "lateral_m": disp.lateral_m,
