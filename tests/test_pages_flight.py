@@ -172,3 +172,18 @@ def test_fit_tab_recovers_the_demo_coefficients():
     fit = bf.fit_tracks(bf.demo_tracks_setup(), bf.demo_tracks(), bf.DEMO_TRACKS["spin_rpm"], 0.0)
     cd, scd = fit.parameter("CD")
     assert metric(at, "CD") == f"{cd:.4f} ± {scd:.4f}"
+
+
+def test_fit_tab_shows_every_curve_parameter_and_offers_the_table():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.session_state["flight_tab"] = "Fit to tracked flights"
+    at.query_params["v"] = "1"
+    at.query_params["fit_mode"] = "curve"
+    at.run()
+    at.button(key="flight_fit_run").click().run()
+    assert not at.exception, at.exception
+    fit = bf.fit_tracks(bf.demo_tracks_setup(), bf.demo_tracks(), bf.DEMO_TRACKS["spin_rpm"], 0.0, mode="curve")
+    for name in bf.CURVE_NAMES:
+        value, sd = fit.parameter(name)
+        assert metric(at, name) == f"{value:.4f} ± {sd:.4f}"
+    assert at.get("download_button")

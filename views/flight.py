@@ -311,12 +311,11 @@ def _fit_tab(values):
     except InputError as exc:
         st.error(str(exc), icon=":material/error:")
         return
-    coefs = fit.names[:fit.coefficient_count]
-    c = st.columns(len(coefs) + 1)
-    for i, name in enumerate(coefs):
-        value, sd = fit.parameter(name)
-        c[i].metric(name, f"{value:.4f} ± {sd:.4f}")
-    c[-1].metric("RMS miss", number_text(fit.rms_m, "length"))
+    cards = [(name, "{:.4f} ± {:.4f}".format(*fit.parameter(name))) for name in fit.names[:fit.coefficient_count]]
+    cards.append(("RMS miss", number_text(fit.rms_m, "length")))
+    for start in range(0, len(cards), 3):  # at most three a row: "0.3427 ± 0.0103" fits at 1280 px
+        for col, (name, text) in zip(st.columns(3), cards[start:start + 3]):
+            col.metric(name, text)
     if fit.mode == "curve":
         st.download_button("Save the fitted curves as a table (.csv)", fit.curve_table().encode(),
                            file_name="fitted_curves.csv", mime="text/csv", key="flight_fit_table",
