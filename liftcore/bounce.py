@@ -163,8 +163,27 @@ def run_out(v_t: float, v_n: float, r_w: float, ground: Ground, k: float, g: flo
 
 
 def landing_components(state, axis) -> tuple[float, float, float, np.ndarray]:
-    """(v_t, v_n, backspin rate w_b, unit heading) from a flight's landing state (7,) and spin
-    axis (3,) in the flight's internal frame (y to the left)."""
+    """The landing speeds and backspin of a flight, in the frame of its heading.
+
+    Parameters
+    ----------
+    state : ndarray, shape (7,)
+        [x, y, z, vx, vy, vz, omega] at the landing (internal frame, y to the left). [m], [m s^-1],
+        [rad s^-1]
+    axis : ndarray, shape (3,)
+        Unit spin axis.
+
+    Returns
+    -------
+    tuple
+        (v_t horizontal speed [m s^-1], v_n downward speed [m s^-1], backspin rate w_b
+        [rad s^-1], unit horizontal heading).
+
+    Notes
+    -----
+    w_b = omega axis . (-(z x heading)): the spin about the horizontal axis square to the path,
+    positive for backspin (the launch's tilt 0).
+    """
     vx, vy, vz, w = float(state[3]), float(state[4]), float(state[5]), float(state[6])
     v_t = math.hypot(vx, vy)
     heading = np.array([vx, vy, 0.0]) / v_t if v_t > 0 else np.array([1.0, 0.0, 0.0])
@@ -173,5 +192,17 @@ def landing_components(state, axis) -> tuple[float, float, float, np.ndarray]:
 
 
 def ground(key: str) -> Ground:
+    """The ground called ``key``.
+
+    Parameters
+    ----------
+    key : str
+        One of :data:`GROUND_KEYS`.
+
+    Returns
+    -------
+    Ground
+        Its restitution, friction and rolling resistance [-] with their provenance.
+    """
     check_choice("ground", key, GROUNDS)
     return GROUNDS[key]

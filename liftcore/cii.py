@@ -171,6 +171,11 @@ def required_cii(ship_type: str, capacity: float, year: int) -> float:
 def boundaries(ship_type: str, capacity: float, year: int) -> np.ndarray:
     """The four rating boundaries (superior, lower, upper, inferior) of a year.
 
+    Parameters
+    ----------
+    ship_type, capacity, year
+        As :func:`required_cii`. [-], [t], [-]
+
     Returns
     -------
     ndarray, shape (4,)
@@ -216,6 +221,13 @@ def attained_cii(co2_t, capacity: float, distance_nm: float):
 def rating(attained, ship_type: str, capacity: float, year: int):
     """Rating A to E of attained CII values (vectorised).
 
+    Parameters
+    ----------
+    attained : float or ndarray
+        Attained CII. [g CO2 / (t nm)]
+    ship_type, capacity, year
+        As :func:`required_cii`. [-], [t], [-]
+
     Notes
     -----
     A below the superior boundary, B from it to the lower, C to the upper, D to the inferior,
@@ -224,6 +236,11 @@ def rating(attained, ship_type: str, capacity: float, year: int):
     Returns
     -------
     str or ndarray of str
+        One letter per value.
+
+    References
+    ----------
+    .. [1] IMO Resolution MEPC.354(78) (2022), rating boundaries.
     """
     i = np.searchsorted(boundaries(ship_type, capacity, year), np.asarray(attained, dtype=float), side="right")
     out = np.asarray(RATINGS)[i]
@@ -258,6 +275,11 @@ class CIIComparison:
 def compare(ship_type: str, capacity: float, year: int, distance_nm: float, co2_before_t: float,
             co2_after_t: float) -> CIIComparison:
     """The CII and rating of a year without and with the rotors (see :func:`attained_cii`).
+
+    Returns
+    -------
+    CIIComparison
+        Reference, required, boundaries [g CO2 / (t nm)] and both attained values with their letters.
 
     Parameters
     ----------

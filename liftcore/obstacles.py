@@ -49,8 +49,27 @@ PRESET_LABELS = ("No obstacle", "Free kick: wall and goal", "Tennis serve: net a
 
 
 def preset(key: str, goal_distance_m: float = 20.0, custom=(10.0, 2.0, 0.0)) -> tuple[Obstacle, ...]:
-    """The obstacles of a preset (``goal_distance_m`` for a free kick; ``custom`` = distance,
-    height, width of your own wall). [m]"""
+    """The obstacles of a preset.
+
+    Parameters
+    ----------
+    key : str
+        One of :data:`PRESETS`.
+    goal_distance_m : float
+        Free kick: from the ball to the goal line. [m]
+    custom : tuple
+        Distance, height and width (0 = endless) of your own wall. [m]
+
+    Returns
+    -------
+    tuple of Obstacle
+        In the order the ball meets them.
+
+    References
+    ----------
+    .. [1] IFAB Laws of the Game, Laws 1 and 13; ITF Rules of Tennis, Rules 1 and 3; FIVB Official
+       Volleyball Rules, Rules 1.1 and 2.1; ITTF Handbook, Laws 2.1 and 2.2 (dimensions from memory).
+    """
     check_choice("obstacle", key, PRESETS)
     if key == "none":
         return ()

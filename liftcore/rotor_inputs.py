@@ -145,7 +145,25 @@ ROTOR_SHOW_IF = {
 
 
 def hull_from_inputs(values: dict):
-    """The :class:`liftcore.hull.Hull` the inputs describe, or None when the balance is off."""
+    """The hull the inputs describe.
+
+    Parameters
+    ----------
+    values : dict
+        Validated rotor or voyage inputs (``hull_balance``, ``hull_length_m`` [m], ``hull_beam_m``
+        [m], ``hull_draught_m`` [m], ``block_coefficient`` [-], ``rudder_area_m2`` [m^2],
+        ``rudder_x_m`` [m], ``rudder_aspect_ratio`` [-], ``displacement_kg`` [kg, 0: from the
+        form], ``metacentric_height_m`` [m, 0: no heel angle]).
+
+    Returns
+    -------
+    liftcore.hull.Hull or None
+        None when the balance is off.
+
+    Notes
+    -----
+    Displacement from the form: C_b L B T rho_sea (rho_sea = 1025 kg/m^3).
+    """
     from liftcore.hull import Hull
 
     if not values.get("hull_balance", False):
