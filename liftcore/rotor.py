@@ -49,6 +49,7 @@ from __future__ import annotations
 import math
 from typing import Any
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -175,7 +176,7 @@ class RotorSetup:
                                                 f"{self.rotor_count} rotors (got {self.rotor_spacing_m:g} m)")
 
     # --- derived geometry
-    @property
+    @cached_property  # read in every evaluation of the best-spin search; the setup is frozen
     def hull_resistance_coefficient(self) -> float:
         """C of the resistance leeway and rudder add, R = C Y^2 / U^2, with the side force at the
         rotors' mean position (:meth:`liftcore.hull.Hull.resistance_coefficient`)."""
@@ -785,6 +786,8 @@ def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape
     # yaw moment about midships: rotors share the same force (interaction applied evenly)
     x_mean = float(np.mean(setup.rotor_positions_m))
     yaw = res["side"] * x_mean
+    if setup.hull is not None:  # leeway and rudder angle once, for the fields and the warnings
+        res["hull"] = setup.hull.balance(res["side"], x_mean, w.ship)
     spin_dir = np.where(running, -w.side_sign, 0.0)
     power_t = setup.rotor_count * res["power1"]
     from liftcore.rotor_warnings import rotor_warnings  # the texts live beside the model
@@ -814,17 +817,10 @@ def _finish(setup: RotorSetup, w: _Wind, omega, res, state, flags, within, shape
         spin_ratio_span_max=shaped(np.where(running, sr_strip.max(axis=-1), 0.0)),
         spin_power_set_w=None if res["power_set1"] is None else shaped(setup.rotor_count * res["power_set1"]),
         spin_power_friction_w=shaped(setup.rotor_count * res["power_friction1"]),
-        **_balance_fields(setup, res, w, x_mean, shaped),
+        **({} if setup.hull is None else
+           {"balance_power_w": shaped(res["balance"]), "leeway_deg": shaped(res["hull"]["leeway_deg"]),
+            "rudder_angle_deg": shaped(res["hull"]["rudder_angle_deg"])}),
     )
-
-
-def _balance_fields(setup: RotorSetup, res: dict, w, x_mean: float, shaped) -> dict:
-    """The operating point's leeway, rudder angle and balance power (empty without a hull)."""
-    if setup.hull is None:
-        return {}
-    b = setup.hull.balance(res["side"], x_mean, w.ship)
-    return {"balance_power_w": shaped(res["balance"]), "leeway_deg": shaped(b["leeway_deg"]),
-            "rudder_angle_deg": shaped(b["rudder_angle_deg"])}
 
 
 

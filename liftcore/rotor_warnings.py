@@ -200,7 +200,7 @@ def _hull_warnings(setup, w, res, n) -> list:
     from liftcore import hull as hm
 
     out = []
-    b = setup.hull.balance(res["side"], float(np.mean(setup.rotor_positions_m)), w.ship)
+    b = res["hull"]  # the operating point's balance (computed once in rotor._finish)
     for key, limit, code, what, theory, consequence in (
             ("leeway_deg", hm.LEEWAY_LINEAR_DEG, "leeway_beyond_linear", "Leeway", "linear hull theory",
              "the lost power is underestimated there"),

@@ -290,11 +290,13 @@ def setup_from_values(values: dict, ball_key: str | None = None, altitude_m: flo
     bk = ball_key or v["ball"]
     mk = v["coefficient_model"]
     aero = None
-    if mk == "table" and ball_key is None:
-        from liftcore.balls import table_model
+    if mk == "table":  # the user's own table replaces the model (not for a second ball)
+        if ball_key is None:
+            from liftcore.balls import table_model
 
-        aero, mk = table_model(v["aero_table_csv"], "your aerodynamic table"), None
-    if ball_key is not None or mk == "ball_default" or (mk == "table"):
+            aero = table_model(v["aero_table_csv"], "your aerodynamic table")
+        mk = "ball_default"
+    if ball_key is not None or mk == "ball_default":
         mk = None if bk != "custom" else "achenbach1972"
     cd_scale, cl_scale = v["cd_scale"], v["cl_scale"]
     if (mk or (BALLS[bk].model if bk in BALLS else "")) == "constant":
