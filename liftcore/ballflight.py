@@ -69,6 +69,10 @@ LAUNCH_FIELDS = ("speed_m_s", "elevation_deg", "azimuth_deg", "spin_rpm", "spin_
                  "rifle_deg", "height_m")
 
 
+#: Most gate distances one batch keeps crossings at (each costs two arrays of the batch's size).
+MAX_GATES = 8
+
+
 # ----------------------------------------------------------------------------- inputs
 @dataclass(frozen=True)
 class Wind:
@@ -440,6 +444,10 @@ class BatchResult:
     records: tuple = ()
     #: Flights stopped unfinished at :data:`MAX_STEPS` integration steps.
     stalled: int = 0
+    #: Height and drift (right +) where each flight first crosses each gate distance asked of
+    #: :func:`simulate`, shape (gates, n); NaN where it lands (or stops) before the gate. [m]
+    gate_height_m: np.ndarray | None = None
+    gate_lateral_m: np.ndarray | None = None
 
     @property
     def n(self) -> int:
@@ -452,7 +460,7 @@ class BatchResult:
 
 def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: float = 1e-6,
              t_max: float = T_MAX_S, record: bool = False, progress: Callable | None = None,
-             cd_scale=None, cl_scale=None) -> BatchResult:
+             cd_scale=None, cl_scale=None, gates=()) -> BatchResult:
     """Fly every launch in ``launch`` (arrays broadcast) to the ground with adaptive Dormand-Prince.
 
     Parameters
@@ -466,13 +474,34 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
         Keep the step knots of every flight for dense output (memory grows with n x steps).
     cd_scale, cl_scale : array, optional
         Per-flight coefficient scales overriding ``setup.cd_scale`` / ``setup.cl_scale``.
+    gates : sequence of float
+        Downrange distances (at most :data:`MAX_GATES`) where every flight's height and drift
+        are kept as it first crosses them (walls, nets, goal lines), without recording paths. [m]
 
     Returns
     -------
     BatchResult
+
+    Notes
+    -----
+    A gate crossing is found inside the accepted step whose downrange distance brackets it, on
+    the step's cubic Hermite interpolant (the one the landing and the charts use), by the same
+    Newton iteration as the landing.
+
+    References
+    ----------
+    .. [1] Dormand, J. R. & Prince, P. J. (1980), A family of embedded Runge-Kutta formulae,
+       J. Comput. Appl. Math. 6, 19-26.
+    .. [2] Hairer, E., Norsett, S. P. & Wanner, G. (1993), Solving Ordinary Differential
+       Equations I, 2nd ed., Springer, Sec. II.4 and II.6 (step size, dense output).
     """
     y0, axis = launch_vectors(launch)
     n = y0.shape[1]
+    gates = np.asarray(gates, dtype=float).ravel()
+    if gates.size > MAX_GATES:
+        raise InputError("gates", f"at most {MAX_GATES} gate distances per batch (got {gates.size})")
+    gate_z = np.full((gates.size, n), np.nan)
+    gate_y = np.full((gates.size, n), np.nan)
     rhs = _Rhs(setup)
     P = _params(setup, axis, n, cd_scale, cl_scale)
     out = {k: np.full(n, np.nan) for k in ("t", "x", "y", "vx", "vy", "vz", "w")}
@@ -583,6 +612,14 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
             Fnew[:, li] = rhs(Yl, Pa[:, li])
             t_new = t_new.copy()
             t_new[li] = out["t"][gid]
+        for g, d in enumerate(gates):
+            cross = ok & (Y[0] < d) & (Ynew[0] >= d)
+            if cross.any():
+                ci = np.flatnonzero(cross)
+                hh = (t_new - t)[ci]
+                s = _landing_fraction(Y[0, ci] - d, Ynew[0, ci] - d, F[0, ci], Fnew[0, ci], hh)
+                Yg = _hermite(0.0, 1.0, Y[:, ci], Ynew[:, ci], hh * F[:, ci], hh * Fnew[:, ci], s)
+                gate_z[g, ids[ci]], gate_y[g, ids[ci]] = Yg[2], -Yg[1] + 0.0
         t = np.where(ok, t_new, t)
         Y, F = Ynew, Fnew
         if record and ok.any():
@@ -629,7 +666,8 @@ def simulate(setup: FlightSetup, launch: Launch, *, rtol: float = 1e-6, atol: fl
         landing_speed_m_s=np.sqrt(horiz ** 2 + out["vz"] ** 2),
         landing_spin_rpm=out["w"] / RPM_RAD_S, landed=landed, s_min=smin, s_max=smax,
         re_min=remin, re_max=remax, speed_rel_max_m_s=vmax, steps=steps, rhs_evals=rhs.evals,
-        records=records, stalled=stalled)
+        records=records, stalled=stalled, gate_height_m=gate_z if gates.size else None,
+        gate_lateral_m=gate_y if gates.size else None)
 
 
 def _split_records(n, rec_t, rec_y, rec_f, rec_id):
@@ -923,6 +961,12 @@ SWEEP_INPUTS = {
 }
 
 
+#: What a launch sweep (and the best-launch search) can map: the landing outputs and, when
+#: obstacles are set, the smallest margin over them (positive: clears every one).
+MARGIN_OUTPUT = "margin_m"
+SWEEP_OUTPUTS = {**OUTPUTS, MARGIN_OUTPUT: ("Smallest margin over the obstacles", "length")}
+
+
 @dataclass(frozen=True)
 class SweepResult:
     x_key: str
@@ -936,18 +980,83 @@ class SweepResult:
     best_value: float
     maximise: bool
     warnings: tuple = ()
+    #: (obstacle name, margin grid (ny, nx)) pairs [m], in the order the ball meets them.
+    margins: tuple = ()
+    #: The best point was picked among the launches that clear every obstacle.
+    best_clears: bool = False
+
+    @property
+    def margin_grid(self) -> np.ndarray | None:
+        """The smallest margin over every obstacle at each grid point (>= 0: clears them all)."""
+        if not self.margins:
+            return None
+        return np.minimum.reduce([g for _, g in self.margins])
+
+    def clearance_counts(self) -> dict:
+        """How many grid points clear each obstacle, and all of them (``"all"``), of ``"points"``."""
+        out = {name: int(np.sum(g >= 0)) for name, g in self.margins}
+        if self.margins:
+            out["all"] = int(np.sum(self.margin_grid >= 0))
+        out["points"] = int(self.grid.size)
+        return out
 
 
 def _with(launch: Launch, **changes) -> Launch:
     return replace(launch, **changes)
 
 
+def _check_output(output: str, obstacles) -> None:
+    check_choice("output", output, SWEEP_OUTPUTS)
+    if output == MARGIN_OUTPUT and not obstacles:
+        raise InputError("output", "the smallest margin over the obstacles needs an obstacle: choose one "
+                                   "('Does it clear?' on the page, --obstacle on the command line) or map "
+                                   "another result")
+
+
+def _batch(setup: FlightSetup, launch: Launch, output: str, obstacles=(), progress=None):
+    """(values of ``output``, {obstacle: margins}, BatchResult) of one batch of flights."""
+    from liftcore.obstacles import batch_margins, gate_distances
+
+    res = simulate(setup, launch, progress=progress, gates=gate_distances(obstacles))
+    margins = batch_margins(obstacles, res) if obstacles else {}
+    if output == MARGIN_OUTPUT:
+        return np.minimum.reduce(list(margins.values())), margins, res
+    return res.output(output), margins, res
+
+
 def sweep(setup: FlightSetup, base: Launch, x_key: str, x_values, y_key: str, y_values,
-          output: str = "carry_m", maximise: bool = True, progress=None) -> SweepResult:
-    """``output`` over a grid of two launch inputs, all flights in one batch; best point marked."""
+          output: str = "carry_m", maximise: bool = True, progress=None, obstacles=(),
+          must_clear: bool = False) -> SweepResult:
+    """``output`` over a grid of two launch inputs, all flights in one batch; best point marked.
+
+    Parameters
+    ----------
+    setup : FlightSetup
+    base : Launch
+        The launch every grid point starts from (its two swept inputs replaced).
+    x_key, y_key : str
+        Two different keys of :data:`SWEEP_INPUTS`.
+    x_values, y_values : array_like
+        Grid values in core units (2 or more each, at most 40,000 points in all).
+    output : str
+        A key of :data:`SWEEP_OUTPUTS` (``margin_m`` only with obstacles).
+    maximise : bool
+        Whether the best point is the highest (else the lowest) value.
+    obstacles : sequence of liftcore.obstacles.Obstacle
+        Walls, goals and landing areas: every grid point's margin over each is kept in
+        ``margins`` (crossings found in the batch, :func:`simulate` ``gates``).
+    must_clear : bool
+        The best point is the best of the points that clear every obstacle (of all points when
+        none does).
+
+    Returns
+    -------
+    SweepResult
+        The grid (ny, nx) of ``output``, the best grid point and the margins.
+    """
     check_choice("sweep input", x_key, SWEEP_INPUTS)
     check_choice("sweep input", y_key, SWEEP_INPUTS)
-    check_choice("output", output, OUTPUTS)
+    _check_output(output, obstacles)
     if x_key == y_key:
         raise InputError("sweep input", f"the two sweep inputs must differ (both are {x_key!r})")
     xv = np.asarray(x_values, dtype=float)
@@ -957,13 +1066,20 @@ def sweep(setup: FlightSetup, base: Launch, x_key: str, x_values, y_key: str, y_
                                       f"40000 in all (got {xv.size} x {yv.size})")
     X, Yg = np.meshgrid(xv, yv)
     launch = _with(base, **{x_key: X.ravel(), y_key: Yg.ravel()}).validate()
-    res = simulate(setup, launch, progress=progress)
-    vals = res.output(output).reshape(Yg.shape)
-    score = vals if maximise else -vals
-    i = int(np.nanargmax(score))
+    flat, margins, res = _batch(setup, launch, output, obstacles, progress)
+    vals = flat.reshape(Yg.shape)
+    score = np.where(np.isfinite(vals), vals if maximise else -vals, -np.inf)
+    best_clears = False
+    if must_clear and margins:
+        clear = np.minimum.reduce(list(margins.values())).reshape(Yg.shape) >= 0
+        if clear.any():
+            score = np.where(clear, score, -np.inf)
+            best_clears = True
+    i = int(np.argmax(score))
     iy, ix = np.unravel_index(i, vals.shape)
     return SweepResult(x_key, xv, y_key, yv, output, vals, float(xv[ix]), float(yv[iy]),
-                       float(vals[iy, ix]), maximise, flight_warnings(setup, res, launch))
+                       float(vals[iy, ix]), maximise, flight_warnings(setup, res, launch),
+                       tuple((name, m.reshape(Yg.shape)) for name, m in margins.items()), best_clears)
 
 
 @dataclass(frozen=True)
@@ -980,18 +1096,46 @@ class OptimumResult:
 
 
 def best_launch(setup: FlightSetup, base: Launch, keys, bounds, output: str = "carry_m",
-                maximise: bool = True, start=None) -> OptimumResult:
+                maximise: bool = True, start=None, obstacles=(), must_clear: bool = False) -> OptimumResult:
     """Search the launch inputs ``keys`` within ``bounds`` for the best ``output``.
 
-    A coarse batched grid (9 points per input) picks the start; scipy's bounded Nelder-Mead
-    refines it (derivative-free, robust to the small noise of adaptive steps).
+    Parameters
+    ----------
+    setup : FlightSetup
+    base : Launch
+    keys : sequence of str
+        One to three keys of :data:`SWEEP_INPUTS`.
+    bounds : sequence of (float, float)
+        Low and high of each key, core units.
+    output : str
+        A key of :data:`SWEEP_OUTPUTS`.
+    maximise : bool
+    start : array_like, optional
+        Start point (else the best point of a 9-per-input grid).
+    obstacles : sequence of liftcore.obstacles.Obstacle
+    must_clear : bool
+        Only launches that clear every obstacle count (the others score as the worst).
+
+    Returns
+    -------
+    OptimumResult
+
+    Notes
+    -----
+    A coarse batched grid picks the start; scipy's bounded Nelder-Mead refines it
+    (derivative-free, robust to the small noise of adaptive steps).
+
+    References
+    ----------
+    .. [1] Nelder, J. A. & Mead, R. (1965), A simplex method for function minimization,
+       Comput. J. 7, 308-313 (scipy.optimize.minimize, method "Nelder-Mead", with bounds).
     """
     from scipy.optimize import minimize
 
     keys = tuple(keys)
     for k in keys:
         check_choice("search input", k, SWEEP_INPUTS)
-    check_choice("output", output, OUTPUTS)
+    _check_output(output, obstacles)
     if not 1 <= len(keys) <= 3:
         raise InputError("search inputs", f"search 1 to 3 inputs (got {len(keys)})")
     bnds = [(float(lo), float(hi)) for lo, hi in bounds]
@@ -1006,9 +1150,11 @@ def best_launch(setup: FlightSetup, base: Launch, keys, bounds, output: str = "c
         pts = np.atleast_2d(points)
         evals += pts.shape[0]
         launch = _with(base, **{k: pts[:, i] for i, k in enumerate(keys)})
-        r = simulate(setup, launch)
-        v = r.output(output)
-        return np.where(np.isfinite(v), v, -np.inf if maximise else np.inf)
+        v, margins, _ = _batch(setup, launch, output, obstacles)
+        good = np.isfinite(v)
+        if must_clear and margins:
+            good &= np.minimum.reduce(list(margins.values())) >= 0
+        return np.where(good, v, -np.inf if maximise else np.inf)
 
     if start is None:
         axes = [np.linspace(lo, hi, 9) for lo, hi in bnds]

@@ -11,7 +11,7 @@ import numpy as np
 import plotly.graph_objects as go
 
 from liftcore import units
-from liftcore.figures import FONT_SIZE, LINE_WIDTH, SEQUENTIAL, base_figure, colour, finish
+from liftcore.figures import DIVERGING, FONT_SIZE, LINE_WIDTH, SEQUENTIAL, base_figure, colour, finish
 
 AXIS_WORDS = {"x_m": "Downrange", "lateral_m": "Drift (right +)", "z_m": "Height"}
 
@@ -257,25 +257,52 @@ def carry_histogram(disp, system: str = "SI") -> go.Figure:
 #: colour scale (the fill on its dark end, the outline on its light end).
 MARKER_OUTLINE = "#000000"
 GRID_BEST_FILL = "#E69F00"
+#: Veil over the launches that miss an obstacle: white, half see-through (the colours stay readable).
+MISS_VEIL = "rgba(255,255,255,0.6)"
 SEARCHED_FILL = "#FFFFFF"
 
 
 def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system: str = "SI",
                   searched: tuple | None = None) -> go.Figure:
-    """Which launch gives the most? The output over the grid of two inputs, best point marked."""
+    """Which launch gives the most? The output over the grid of two inputs, best point marked.
+
+    With obstacles (``sw.margins``), the launches that miss one are greyed over and the line
+    where the smallest margin is zero (clears / misses) is drawn; a map of the margin itself
+    uses a diverging scale centred on zero (blue clears, red misses)."""
     xl, xk = labels[sw.x_key]
     yl, yk = labels[sw.y_key]
     z = _u(sw.grid, output_kind, system)
+    xs, ys = _u(sw.x_values, xk, system), _u(sw.y_values, yk, system)
     fig = base_figure(f"{output_label} over {xl.lower()} and {yl.lower()}", _lbl(xl, xk, system),
                       _lbl(yl, yk, system), height=520)
-    fig.add_trace(go.Heatmap(x=_u(sw.x_values, xk, system), y=_u(sw.y_values, yk, system), z=z,
-                             colorscale=SEQUENTIAL,
-                             colorbar=dict(title=dict(text=_lbl(output_label, output_kind, system), side="right"))))
+    bar = dict(title=dict(text=_lbl(output_label, output_kind, system), side="right"))
+    if sw.output == "margin_m":
+        # symmetric about zero, as wide as the best clearance (at least 0.25 m): the launches
+        # that clear show in full blue and the misses saturate to red beyond that
+        top = max(float(np.nanmax(z)) if np.isfinite(z).any() else 0.0, float(_u(0.25, "length", system)))
+        fig.add_trace(go.Heatmap(x=xs, y=ys, z=z, colorscale=DIVERGING, zmin=-top, zmax=top, colorbar=bar))
+    else:
+        fig.add_trace(go.Heatmap(x=xs, y=ys, z=z, colorscale=SEQUENTIAL, colorbar=bar))
+    m = sw.margin_grid
+    if m is not None:
+        if sw.output != "margin_m" and (m < 0).any():
+            fig.add_trace(go.Heatmap(x=xs, y=ys, z=np.where(m < 0, 1.0, np.nan), showscale=False,
+                                     colorscale=[[0, MISS_VEIL], [1, MISS_VEIL]], hoverinfo="skip",
+                                     name="faded: misses an obstacle", showlegend=False))
+            # a heat map has no legend swatch: a marker of the veil's look stands for it
+            fig.add_trace(go.Scatter(x=[None], y=[None], mode="markers", name="faded: misses an obstacle",
+                                     marker=dict(symbol="square", size=14, color=MISS_VEIL,
+                                                 line=dict(width=1, color=OBSTACLE_COLOUR))))
+        if (m < 0).any() and (m >= 0).any():
+            fig.add_trace(go.Contour(x=xs, y=ys, z=_u(m, "length", system), showscale=False, hoverinfo="skip",
+                                     contours=dict(start=0.0, end=0.0, size=1.0, coloring="none"),
+                                     line=dict(color=MARKER_OUTLINE, width=3, dash="dash"),
+                                     name="clears / misses (margin 0)", showlegend=True))
     word = "highest" if sw.maximise else "lowest"
     fig.add_trace(go.Scatter(x=[_u(sw.best_x, xk, system)], y=[_u(sw.best_y, yk, system)], mode="markers",
                              marker=dict(size=20, symbol="star", color=GRID_BEST_FILL,
                                          line=dict(width=2, color=MARKER_OUTLINE)),
-                             name=f"{word} on the grid"))
+                             name=f"{word} on the grid" + (" that clears" if sw.best_clears else "")))
     if searched is not None:
         fig.add_trace(go.Scatter(x=[_u(searched[0], xk, system)], y=[_u(searched[1], yk, system)], mode="markers",
                                  marker=dict(size=15, symbol="circle", color=SEARCHED_FILL,

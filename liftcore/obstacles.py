@@ -92,8 +92,48 @@ def preset(key: str, goal_distance_m: float = 20.0, custom=(10.0, 2.0, 0.0)) -> 
                      check_number("wall width", w, "m", low=0.0, high=100.0), rule="entered"),)
 
 
+def margin(o: Obstacle, carry_m, lateral_m, height_at_m=np.nan, lateral_at_m=np.nan) -> np.ndarray:
+    """The margin by which flights clear (+) or miss (-) one obstacle (arrays broadcast).
+
+    Parameters
+    ----------
+    o : Obstacle
+    carry_m, lateral_m : float or array
+        Where each flight first lands (drift right +). [m]
+    height_at_m, lateral_at_m : float or array
+        Where it crosses the obstacle's distance (NaN if it never gets there; unused for "land"). [m]
+
+    Returns
+    -------
+    numpy.ndarray
+        The smallest of the distances that decide it [m]; a ball that lands short of a wall or a
+        goal misses by how far short it lands.
+
+    Notes
+    -----
+    With half width w/2 (0 = endless), height h and the crossing at height z, drift y:
+
+    * over: z - h, or max(z - h, |y| - w/2) for a wall of finite width (over it or round its end);
+    * through: min(h - z, w/2 - |y|, z) (under the bar, inside the posts, above the ground);
+    * land: min(carry - d, end - carry, w/2 - |lateral|).
+    """
+    carry = np.asarray(carry_m, dtype=float)
+    lat = np.asarray(lateral_m, dtype=float)
+    half = 0.5 * o.width_m
+    if o.kind == "land":
+        return np.minimum(np.minimum(carry - o.distance_m, o.end_m - carry), half - np.abs(lat))
+    zh = np.asarray(height_at_m, dtype=float)
+    yh = np.asarray(lateral_at_m, dtype=float)
+    if o.kind == "over":
+        m = zh - o.height_m if half == 0 else np.maximum(zh - o.height_m, np.abs(yh) - half)
+    else:
+        m = np.minimum(np.minimum(o.height_m - zh, half - np.abs(yh)), zh)
+    short = (carry < o.distance_m) | ~np.isfinite(zh)
+    return np.where(short, carry - o.distance_m, m)
+
+
 def check(path: dict, carry_m: float, lateral_m: float, o: Obstacle) -> dict:
-    """The margin by which a flight clears (+) or misses (-) one obstacle.
+    """How one flight clears (+) or misses (-) one obstacle, read off its sampled path.
 
     Parameters
     ----------
@@ -106,25 +146,72 @@ def check(path: dict, carry_m: float, lateral_m: float, o: Obstacle) -> dict:
     Returns
     -------
     dict
-        ``name``, ``clears`` (bool), ``margin_m`` (the smallest of the distances that decide it),
-        ``height_m`` / ``lateral_m`` where it crosses (or lands), ``rule``.
+        ``name``, ``kind``, ``clears`` (bool), ``margin_m`` (:func:`margin`), ``height_m`` /
+        ``lateral_m`` where it crosses (or lands; None when it lands short), ``rule``, and
+        ``lands_short`` when it lands before a wall or goal.
     """
     x, z, y = (np.asarray(path[k], dtype=float) for k in ("x_m", "z_m", "lateral_m"))
     first = x <= carry_m + 1e-9
     x, z, y = x[first], z[first], y[first]
-    half = 0.5 * o.width_m
+    out = {"name": o.name, "kind": o.kind, "rule": o.rule}
     if o.kind == "land":
-        margin = min(carry_m - o.distance_m, o.end_m - carry_m, half - abs(lateral_m))
-        return {"name": o.name, "kind": o.kind, "clears": bool(margin >= 0), "margin_m": float(margin),
-                "height_m": 0.0, "lateral_m": float(lateral_m), "rule": o.rule}
+        m = float(margin(o, carry_m, lateral_m))
+        return {**out, "clears": bool(m >= 0), "margin_m": m, "height_m": 0.0, "lateral_m": float(lateral_m)}
     if carry_m < o.distance_m or x.size < 2:
-        return {"name": o.name, "kind": o.kind, "clears": False, "margin_m": float(carry_m - o.distance_m),
-                "height_m": None, "lateral_m": None, "rule": o.rule, "lands_short": True}
+        return {**out, "clears": False, "margin_m": float(carry_m - o.distance_m), "height_m": None,
+                "lateral_m": None, "lands_short": True}
     zh, yh = float(np.interp(o.distance_m, x, z)), float(np.interp(o.distance_m, x, y))
-    if o.kind == "over":
-        above = zh - o.height_m
-        margin = above if half == 0 else max(above, abs(yh) - half)  # over it, or round its end
-    else:
-        margin = min(o.height_m - zh, half - abs(yh), zh)
-    return {"name": o.name, "kind": o.kind, "clears": bool(margin >= 0), "margin_m": float(margin), "height_m": zh,
-            "lateral_m": yh, "rule": o.rule}
+    m = float(margin(o, carry_m, lateral_m, zh, yh))
+    return {**out, "clears": bool(m >= 0), "margin_m": m, "height_m": zh, "lateral_m": yh}
+
+
+def gate_distances(obstacles) -> tuple:
+    """The distances a batch must keep crossings at for ``obstacles`` (walls, nets, goals)."""
+    return tuple(o.distance_m for o in obstacles if o.kind != "land")
+
+
+def batch_margins(obstacles, res) -> dict:
+    """Margins of every flight of a batch over each obstacle, the batch flown with
+    ``gates=gate_distances(obstacles)`` (:func:`liftcore.ballflight.simulate`).
+
+    Parameters
+    ----------
+    obstacles : sequence of Obstacle
+    res : liftcore.ballflight.BatchResult
+
+    Returns
+    -------
+    dict
+        Obstacle name -> margin per flight [m] (:func:`margin`).
+    """
+    out, g = {}, 0
+    for o in obstacles:
+        if o.kind == "land":
+            out[o.name] = margin(o, res.carry_m, res.lateral_m)
+        else:
+            out[o.name] = margin(o, res.carry_m, res.lateral_m, res.gate_height_m[g], res.gate_lateral_m[g])
+            g += 1
+    return out
+
+
+def rules_table(obstacles, checks=()) -> list[dict]:
+    """One row per obstacle: what it is, its dimensions, the rule they come from and, with
+    ``checks`` (:func:`check`), how the flight clears it: for the handout and the page.
+
+    Returns
+    -------
+    list of dict
+        ``obstacle``, ``test``, ``distance_m``, ``height_m``, ``width_m`` (0 = endless),
+        ``far_end_m`` (landing areas), ``margin_m``, ``clears``, ``rule``.
+    """
+    tests = {"over": "pass over", "through": "pass through", "land": "land in"}
+    by_name = {c["name"]: c for c in checks}
+    rows = []
+    for o in obstacles:
+        c = by_name.get(o.name)
+        rows.append({"obstacle": o.name, "test": tests[o.kind], "distance_m": o.distance_m,
+                     "height_m": o.height_m if o.kind != "land" else float("nan"), "width_m": o.width_m,
+                     "far_end_m": o.end_m if o.kind == "land" else float("nan"),
+                     "margin_m": float("nan") if c is None else c["margin_m"],
+                     "clears": "" if c is None else ("yes" if c["clears"] else "no"), "rule": o.rule})
+    return rows

@@ -187,3 +187,31 @@ def test_fit_tab_shows_every_curve_parameter_and_offers_the_table():
         value, sd = fit.parameter(name)
         assert metric(at, name) == f"{value:.4f} ± {sd:.4f}"
     assert at.get("download_button")
+
+
+def test_sweep_tab_counts_the_free_kicks_that_clear_and_the_flight_tab_cites_the_rules():
+    at = AppTest.from_file(PAGE, default_timeout=90)
+    at.query_params["v"] = "1"
+    for k, v in {"ball": "soccer", "obstacle": "free_kick", "speed_m_s": "22", "elevation_deg": "14",
+                 "spin_rpm": "600", "spin_axis_deg": "-60", "sweep_x": "elevation_deg", "sweep_y": "speed_m_s",
+                 "sweep_points": "9", "sweep_elevation_deg_from": "5", "sweep_elevation_deg_to": "30",
+                 "sweep_speed_m_s_from": "15", "sweep_speed_m_s_to": "30"}.items():
+        at.query_params[k] = v
+    at.run()
+    assert not at.exception, at.exception
+    rules = next(d.value for d in at.dataframe if "rule" in d.value.columns)
+    assert list(rules["obstacle"]) == ["wall", "goal"] and "IFAB Law 13 (9.15 m)" in rules["rule"].iloc[0]
+    at.session_state["flight_tab"] = "Launch sweep"
+    at.run()
+    assert not at.exception, at.exception
+    values = study.INPUTS.validate({k: at.session_state[f"flight:{k}"] for k in study.INPUTS.keys
+                                    if f"flight:{k}" in at.session_state})
+    counts = study.launch_sweep(values).clearance_counts()
+    assert counts["points"] == 81 and 0 < counts["all"] < 81
+    assert metric(at, "Launches that clear every obstacle").startswith(f"{counts['all']:,} of 81")
+    # mapping the margin itself, then back to carry: no error, the boxes keep what was typed
+    at.selectbox(key="w:flight:sweep_output:SI").set_value("margin_m").run()
+    assert not at.exception and not at.error, at.error
+    assert metric(at, "Best margin on the grid")
+    at.selectbox(key="w:flight:sweep_output:SI").set_value("carry_m").run()
+    assert metric(at, "Launches that clear every obstacle").startswith(f"{counts['all']:,} of 81")

@@ -134,6 +134,7 @@ def _flight_tab(result, values):
         show_figure(figs["Side view"], key="fig_side")
     with c2:
         show_figure(figs["Top view"], key="fig_top")
+    _obstacle_table(result)
     if len(flights) > 1:
         st.subheader("Flights side by side")
         rows = []
@@ -209,20 +210,25 @@ def _sweep_tab(values):
     now = current_values(SPEC)
     x, y = now["sweep_x"], now["sweep_y"]
     _draw_inputs((f"sweep_{x}_from", f"sweep_{x}_to", f"sweep_{y}_from", f"sweep_{y}_to",
-                  "sweep_points", "sweep_in_report"), per_row=6)
+                  "sweep_points"), per_row=5)
+    _draw_inputs(("sweep_must_clear", "sweep_in_report"), per_row=2)  # switches: room for their words
     v = {**values, **{k: st.session_state.get(state_key(KIND, k), SPEC.field(k).default) for k in study.SWEEP_KEYS}}
     try:
         sw = _cached("sweep", v, lambda progress: study.launch_sweep(v, progress), "Flying the grid")
     except InputError as exc:
         st.error(str(exc), icon=":material/error:")
         return
-    out_label, out_kind = bf.OUTPUTS[v["sweep_output"]]
+    out_label, out_kind = bf.SWEEP_OUTPUTS[v["sweep_output"]]
     labels = study.SWEEP_LABELS
     c1, c2 = st.columns([3, 1])
     with c2:
-        st.metric(f"Best {out_label.lower()} on the grid", number_text(sw.best_value, out_kind, 4))
+        best = "Best margin" if sw.output == bf.MARGIN_OUTPUT else f"Best {out_label.lower()}"
+        st.metric(f"{best} on the grid", number_text(sw.best_value, out_kind, 4))
         st.caption(f"{labels[sw.x_key][0]}: {number_text(sw.best_x, labels[sw.x_key][1])}; "
-                   f"{labels[sw.y_key][0]}: {number_text(sw.best_y, labels[sw.y_key][1])}")
+                   f"{labels[sw.y_key][0]}: {number_text(sw.best_y, labels[sw.y_key][1])}"
+                   + (" (the best of the launches that clear every obstacle)" if sw.best_clears else ""))
+        if sw.margins:
+            _clearance_note(sw, v)
         opt = None
         if st.button("Search the best launch", key="flight_search",
                      help="Refines the grid's best point within the two ranges (scipy Nelder-Mead)."):
@@ -232,11 +238,40 @@ def _sweep_tab(values):
             st.metric(f"Searched {out_label.lower()}", number_text(opt.best_value, out_kind, 4))
             st.caption("; ".join(f"{labels[k][0]}: {number_text(val, labels[k][1])}"
                                  for k, val in zip(opt.keys, opt.values))
-                       + f" ({opt.evaluations:,} flights). Other inputs as in the sidebar.")
+                       + f" ({opt.evaluations:,} flights"
+                       + ("; only launches that clear every obstacle" if sw.best_clears else "")
+                       + "). Other inputs as in the sidebar.")
     with c1:
         show_figure(study.sweep_figure(sw, v, unit_system(), None if opt is None else opt.values),
                     key="fig_sweep")
     show_warnings([w for w in sw.warnings if w.severity == "invalid"])
+
+
+def _clearance_note(sw, values) -> None:
+    """How many launches of the grid clear each obstacle and all of them."""
+    n = sw.clearance_counts()
+    share = lambda k: f"{n[k]:,} of {n['points']:,} ({100 * n[k] / n['points']:.0f} %)"  # noqa: E731
+    st.metric("Launches that clear every obstacle", share("all"))
+    how = ("blue clears, red misses" if sw.output == bf.MARGIN_OUTPUT else
+           "faded on the map: launches that miss one")
+    st.caption("; ".join(f"{name}: {share(name)}" for name, _ in sw.margins)
+               + f". {how[0].upper()}{how[1:]}; the dashed line is where the smallest margin is zero.")
+    if n["all"] == 0 and values["sweep_must_clear"]:
+        st.warning("No launch on the grid clears every obstacle: the star marks the best of all. Widen "
+                   "the ranges or move them.", icon=":material/warning:")
+
+
+def _obstacle_table(result) -> None:
+    """The obstacles' dimensions, the rules they come from and how this flight clears them."""
+    if "obstacles" not in result.tables:
+        return
+    table = study.tables_in_units(result, unit_system())["obstacles"].round(3)
+    table = table.astype(object).where(table.notna(), "")  # no "None" where a size does not apply
+    with st.expander("Obstacles: dimensions, rules and margins", expanded=False):
+        st.dataframe(table, hide_index=True, width="stretch",
+                     column_config={"rule": st.column_config.TextColumn(width="large")})
+        st.caption("Dimensions from the governing bodies' rules as cited (from memory); width 0 means "
+                   "the net spans the whole court. Margin: positive clears (or is inside), negative misses.")
 
 
 def _spread_tab(values):

@@ -7,11 +7,20 @@ from __future__ import annotations
 
 from liftcore.balls import BALL_KEYS, MODEL_KEYS
 from liftcore.cli import add_json_flag
-from liftcore.cli.common import add_air_options, air_values, density_from_args, text_table
+from liftcore.cli.common import (Option, add_air_options, add_options, air_values, density_from_args,
+                                 option_values, text_table)
 from liftcore.errors import InputError, check_choice, check_number
 from liftcore.ballflight import MAX_CHECK_DISTANCE_M
 from liftcore.bounce import GROUND_KEYS
 from liftcore.studies import run_study
+from liftcore.studies.flight import INPUTS, SWEEP_LABELS
+
+#: Options generated from the study's inputs (type, range and default from the field).
+WALL_OPTIONS = (Option("wall_distance_m", "--wall-distance-m", "m", text="your wall (--obstacle custom): distance"),
+                Option("wall_height_m", "--wall-height-m", "m", text="your wall: height"),
+                Option("wall_width_m", "--wall-width-m", "m", text="your wall: width, 0 = endless"))
+SWEEP_OPTIONS = (Option("sweep_points", "--sweep-points", text="grid points along each sweep input"),
+                 Option("sweep_output", "--sweep-output", text="result the sweep maps"))
 
 
 def add_parser(sub):
@@ -46,20 +55,32 @@ def add_parser(sub):
     g.add_argument("--wind-from-deg", type=float, default=0.0,
                    help="wind comes from, clockwise from downrange: 0 into the face, 180 from behind [deg]")
     g.add_argument("--wind-profile", default="uniform", help="uniform or power_law")
-    g = p.add_argument_group("launch spread")
+    g = p.add_argument_group("after landing, obstacles and checks")
     g.add_argument("--ground", choices=("ball_default", "none") + GROUND_KEYS, default="ball_default",
                    help="after the first landing: bounces and roll to rest on this ground (default: the "
                         "ball's usual one, medium turf for golf, a hard court for court balls; none for "
                         "the others)")
-    g.add_argument("--obstacle", choices=("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis"),
-                   default="none", help="check a preset from the governing bodies' rules: margins in 'obstacles'")
+    g.add_argument("--obstacle", choices=("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis",
+                                          "custom"),
+                   default="none", help="check a preset from the governing bodies' rules (or your own wall, "
+                                        "custom): margins in 'obstacles'")
+    add_options(g, INPUTS, WALL_OPTIONS)
     g.add_argument("--goal-distance-m", type=float, default=20.0,
                    help="free kick: from the ball to the goal line [m] (default 20; the wall stands at 9.15 m)")
     g.add_argument("--check-distance-m", type=float, metavar="D",
                    help="report where the ball is when it first crosses downrange distance D [m] "
                         "(at_check in --json; null if it lands first)")
+    g = p.add_argument_group("launch spread")
     g.add_argument("--dispersion", type=int, default=0, metavar="N", help="fly N flights with drawn launch conditions")
     g.add_argument("--seed", type=int, default=1, help="random seed for --dispersion")
+    g = p.add_argument_group("launch sweep (a grid of two launch inputs, every point a full flight)")
+    g.add_argument("--sweep-across", metavar="INPUT:FROM:TO",
+                   help=f"first sweep input and its range in core units; INPUT one of {', '.join(SWEEP_LABELS)}")
+    g.add_argument("--sweep-up", metavar="INPUT:FROM:TO", help="second sweep input and its range")
+    add_options(g, INPUTS, SWEEP_OPTIONS)
+    g.add_argument("--sweep-lowest", action="store_true", help="the best grid point is the lowest value")
+    g.add_argument("--sweep-any", action="store_true",
+                   help="with an obstacle: the best grid point of all launches, not only those that clear")
     add_json_flag(p)
     return p
 
@@ -94,6 +115,8 @@ def values_from_args(args) -> dict:
     if args.check_distance_m is not None:
         values["check_distance_m"] = check_number("check-distance-m", args.check_distance_m, "m", low=0.0,
                                                   high=MAX_CHECK_DISTANCE_M, low_inclusive=False)
+    values.update(option_values(args, WALL_OPTIONS))
+    values.update(_sweep_values(args))
     if args.density_kg_m3 is not None:
         values["set_density"] = True
         values["density_kg_m3"] = rho
@@ -125,9 +148,44 @@ def values_from_args(args) -> dict:
     return values
 
 
+def _sweep_range(option: str, text: str) -> tuple:
+    """``INPUT:FROM:TO`` -> (input key, from, to), checked against the sweep's fields."""
+    parts = text.split(":")
+    if len(parts) != 3:
+        raise InputError(option, f"{option} expects INPUT:FROM:TO, e.g. elevation_deg:5:30 (got {text!r})")
+    key = check_choice(option, parts[0], tuple(SWEEP_LABELS))
+    ends = []
+    for end, word in zip(parts[1:], ("from", "to")):
+        f = INPUTS.field(f"sweep_{key}_{word}")
+        try:
+            x = float(end)
+        except ValueError:
+            raise InputError(option, f"{option}: the {word} value of {key} must be a number (got {end!r})") from None
+        ends.append(check_number(f"{option} {word}", x, "", low=f.low, high=f.high))
+    return key, ends[0], ends[1]
+
+
+def _sweep_values(args) -> dict:
+    """The launch-sweep inputs of ``--sweep-across`` / ``--sweep-up`` (both or neither)."""
+    if args.sweep_across is None and args.sweep_up is None:
+        for o in SWEEP_OPTIONS:
+            if getattr(args, o.dest, None) is not None:
+                raise InputError(o.name, f"{o.name} needs --sweep-across and --sweep-up")
+        return {}
+    if args.sweep_across is None or args.sweep_up is None:
+        raise InputError("--sweep-across", "a launch sweep needs both --sweep-across and --sweep-up")
+    out = {"sweep_in_report": True, "sweep_goal": "min" if args.sweep_lowest else "max",
+           "sweep_must_clear": not args.sweep_any, **option_values(args, SWEEP_OPTIONS)}
+    for axis, option in (("sweep_x", "--sweep-across"), ("sweep_y", "--sweep-up")):
+        key, lo, hi = _sweep_range(option, getattr(args, axis.replace("_x", "_across").replace("_y", "_up")))
+        out.update({axis: key, f"sweep_{key}_from": lo, f"sweep_{key}_to": hi})
+    return out
+
+
 def execute(args, progress):
     values = values_from_args(args)
-    result = run_study("flight", values, progress=progress if args.dispersion > 0 else None)
+    slow = args.dispersion > 0 or values.get("sweep_in_report", False)
+    result = run_study("flight", values, progress=progress if slow else None)
     js = result.json
     data = {k: js[k] for k in ("carry_m", "peak_height_m", "flight_time_s", "lateral_m",
                                "descent_angle_deg", "landing_speed_m_s", "warnings")}
@@ -162,6 +220,16 @@ def execute(args, progress):
                      "the ball lands before it gets there" if c is None else
                      f"height {c['height_m']:.2f} m, drift {c['lateral_m']:+.2f} m, after {c['time_s']:.2f} s "
                      f"at {c['speed_m_s']:.2f} m/s"))
+    if "sweep" in js:
+        sw = js["sweep"]
+        data["sweep"] = sw
+        label = lambda k: SWEEP_LABELS[k][0].lower()  # noqa: E731
+        rows.append((f"Sweep: best {sw['output']}", f"{sw['best_value']:.3f} at {label(sw['x'])} {sw['best_x']:g}, "
+                                                   f"{label(sw['y'])} {sw['best_y']:g}"))
+        counts = sw["points_clearing"]
+        if counts:
+            rows.append(("Sweep: launches clearing", f"{counts['all']} of {counts['points']} clear every obstacle; "
+                         + ", ".join(f"{k} {v}" for k, v in counts.items() if k not in ("all", "points"))))
     rows += [("Warning", w["message"]) for w in js["warnings"]]
     rows += [("Caution", "results are for analysis, not for safety distances")]
     return data, text_table(rows)

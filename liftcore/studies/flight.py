@@ -182,10 +182,16 @@ SWEEP_FIELDS = (
            advanced=True, help="The launch input along the map's vertical axis."),
     integer("sweep_points", "Points per input", 21, 5, 61, section=_SW, advanced=True,
             help="Grid points along each input: points² flights in one batch."),
-    choice("sweep_output", "Result to map", tuple(bf.OUTPUTS), default="carry_m",
-           labels=tuple(v[0] for v in bf.OUTPUTS.values()), section=_SW, advanced=True),
+    choice("sweep_output", "Result to map", tuple(bf.SWEEP_OUTPUTS), default="carry_m",
+           labels=tuple(v[0] for v in bf.SWEEP_OUTPUTS.values()), section=_SW, advanced=True,
+           help="The smallest margin over the obstacles (positive: the launch clears every one) needs "
+                "an obstacle under 'Does it clear?'."),
     choice("sweep_goal", "Best means", ("max", "min"), default="max", labels=("highest", "lowest"),
            section=_SW, advanced=True),
+    flag("sweep_must_clear", "Best only among launches that clear every obstacle", True, section=_SW,
+         advanced=True, show_if=lambda v: v["obstacle"] != "none",
+         help="The star and the search pick the best launch that clears the obstacles (the best of "
+              "all when none on the grid does)."),
     *_range_fields(),
     flag("sweep_in_report", "Put the sweep in the handout", False, section=_SW, advanced=True,
          help="The map (and its best grid point) in the handout, the numbers file and the output "
@@ -358,7 +364,8 @@ def launch_sweep(values: dict, progress=None) -> bf.SweepResult:
     setup, _ = setup_from_values(values)
     x, xs, y, ys = sweep_grid(values)
     return bf.sweep(setup, launch_from_values(values), x, xs, y, ys, values["sweep_output"],
-                    values["sweep_goal"] == "max", progress=progress)
+                    values["sweep_goal"] == "max", progress=progress, obstacles=obstacles_of(values),
+                    must_clear=values["sweep_must_clear"])
 
 
 def best_launch(values: dict) -> bf.OptimumResult:
@@ -367,7 +374,8 @@ def best_launch(values: dict) -> bf.OptimumResult:
     setup, _ = setup_from_values(values)
     x, xs, y, ys = sweep_grid(values)
     return bf.best_launch(setup, launch_from_values(values), (x, y), ((xs[0], xs[-1]), (ys[0], ys[-1])),
-                          values["sweep_output"], values["sweep_goal"] == "max")
+                          values["sweep_output"], values["sweep_goal"] == "max", obstacles=obstacles_of(values),
+                          must_clear=values["sweep_must_clear"])
 
 
 def landing_spread(values: dict, progress=None) -> bf.DispersionResult:
@@ -400,7 +408,7 @@ SWEEP_LABELS = {k: (v[0], v[1]) for k, v in bf.SWEEP_INPUTS.items()}
 
 def sweep_figure(sw: bf.SweepResult, values: dict, system: str = "SI", searched=None):
     """The sweep's heat map in ``system``'s units (``searched``: a best point to mark)."""
-    out_label, out_kind = bf.OUTPUTS[values["sweep_output"]]
+    out_label, out_kind = bf.SWEEP_OUTPUTS[values["sweep_output"]]
     from liftcore import figures_ball as fb  # plotly only when a chart is drawn
 
     return fb.sweep_heatmap(sw, SWEEP_LABELS, out_label, out_kind, system, searched=searched)
@@ -467,7 +475,7 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     disp = None
     if values["dispersion_n"] > 0:
         disp = landing_spread(values, progress=progress)
-    sw = launch_sweep(values) if values["sweep_in_report"] else None
+    sw = launch_sweep(values, progress) if values["sweep_in_report"] else None
     fit = None
     if values["fit_in_report"]:
         tracks = extra.get("tracks") if isinstance(extra, dict) else None
@@ -508,6 +516,8 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     obstacles = obstacles_of(values)
     checks = tuple(ob.check(main.path, main.carry_m, main.lateral_m, o) for o in obstacles)
     js["obstacles"] = list(checks)
+    if obstacles:
+        tables["obstacles"] = lambda: _frame(ob.rules_table(obstacles, checks))
     run = main.run_out
     js["ground"] = None if run is None else run["ground"]
     js["total_m"] = None if run is None else run["total_m"]
@@ -519,7 +529,8 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     if sw is not None:
         tables["sweep"] = lambda: sweep_table(sw, values)
         js["sweep"] = {"x": sw.x_key, "y": sw.y_key, "output": values["sweep_output"],
-                       "best_value": sw.best_value, "best_x": sw.best_x, "best_y": sw.best_y}
+                       "best_value": sw.best_value, "best_x": sw.best_x, "best_y": sw.best_y,
+                       "points_clearing": sw.clearance_counts() if sw.margins else None}
     if fit is not None:
         tables["fit"] = fit.table
         js["fit"] = {"mode": fit.mode, "rms_m": fit.rms_m,
@@ -543,6 +554,8 @@ COLUMN_UNITS = {
     "descent_angle_deg": "angle", "landing_speed_m_s": "ball_speed", "landing_spin_rpm": "rotation",
     "launch_speed_m_s": "ball_speed", "launch_elevation_deg": "angle", "launch_azimuth_deg": "angle",
     "launch_spin_rpm": "rotation", "launch_spin_axis_deg": "angle",
+    "distance_m": "distance", "height_m": "length", "width_m": "length", "far_end_m": "distance",
+    "margin_m": "length",
 }
 #: Plain names for columns whose key says too little once the unit is gone.
 DISPLAY_NAMES = {"x_m": "downrange_m", "lateral_m": "drift_right_m", "z_m": "height_m",
@@ -559,8 +572,12 @@ def _frame(data):
 def sweep_table(sw: bf.SweepResult, values: dict):
     """The sweep as a long table: the two inputs and the mapped result at every grid point."""
     xx, yy = np.meshgrid(sw.x_values, sw.y_values)
-    return _frame({sw.x_key: xx.ravel(), sw.y_key: yy.ravel(),
-                   values["sweep_output"]: np.asarray(sw.grid).ravel()})
+    cols = {sw.x_key: xx.ravel(), sw.y_key: yy.ravel(), values["sweep_output"]: np.asarray(sw.grid).ravel()}
+    for name, grid in sw.margins:
+        cols[f"margin_{name.replace(' ', '_')}_m"] = np.asarray(grid).ravel()
+    if sw.margins:
+        cols["clears_all"] = np.asarray(sw.margin_grid).ravel() >= 0
+    return _frame(cols)
 
 
 def flight_figures(flights, disp=None, system: str = "SI", sw=None, values=None) -> Charts:
@@ -672,4 +689,6 @@ def tables_in_units(result: StudyResult, system: str) -> dict:
     out["flights"] = shown(table)
     if "spread" in result.tables:
         out["spread"] = shown(result.tables["spread"])
+    if "obstacles" in result.tables:
+        out["obstacles"] = shown(result.tables["obstacles"])
     return out
