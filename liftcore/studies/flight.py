@@ -63,9 +63,10 @@ INPUTS = InputSpec(KIND, (
     choice("ground", "After landing", ("ball_default", "none") + GROUND_KEYS, default="ball_default",
            labels=("The ball's usual ground", "Stop at the first landing")
            + tuple(GROUNDS[k].label for k in GROUND_KEYS), section="Launch",
-           help="Bounces, slide and roll to rest (rigid-ground impact, Brody 1984; Cross 2002): golf "
-                "on medium turf and court balls on a hard court by default; the grounds' values are "
-                "from memory except the tennis rebound rule."),
+           help="Bounces, slide and roll to rest: on turf off the pitch mark the ball digs (Penner "
+                "2002), on a hard court a rigid-ground impact (Brody 1984; Cross 2002); golf on medium "
+                "turf and court balls on a hard court by default. Firmness: soft, medium or firm turf. "
+                "The values are from memory or assumed, except the tennis rebound rule (see Sources)."),
     choice("obstacle", "Does it clear?", ("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis",
                                           "custom"), default="none",
            labels=("No obstacle", "Free kick: wall and goal", "Tennis serve: net and service boxes",
@@ -230,6 +231,13 @@ SOURCES = (
     "(common practice).",
     "Integration: Dormand & Prince (1980), J. Comput. Appl. Math. 6, 19-26, with a step size per flight; "
     "landing by cubic Hermite interpolation.",
+    "After landing: rigid-body impact with grip or slip (Brody 1984, The Physics Teacher 22, 494-497; Cross "
+    "2002, Am. J. Phys. 70, 1093-1102); golf on turf off the pitch mark (Penner 2002, The run of a golf "
+    "ball, Can. J. Phys. 80, 931-940: crater angle, e(v_n) and friction from memory; the turfs' firmness "
+    "factors and rolling resistances assumed); the hard court's e from the ITF ball rebound rule.",
+    "Obstacles: IFAB Laws of the Game (Laws 1 and 13), ITF Rules of Tennis (Rules 1 and 3), FIVB Official "
+    "Volleyball Rules (Rules 1.1 and 2.1), ITTF Handbook (Laws 2.1 and 2.2); dimensions from memory; the "
+    "free-kick wall's size is common practice.",
 )
 CAUTIONS = (
     "Results are for analysis, not for safety distances: real balls scatter more than any model. "
@@ -488,9 +496,9 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
     if main.run_out is not None:
         g = GROUNDS[main.run_out["ground"]]
         warnings.append(ModelWarning("after_landing_model",
-                                     f"bounce and roll on {g.label.lower()}: a rigid-ground impact (Brody 1984) with "
-                                     f"e {g.e:g}, friction {g.mu:g}, rolling resistance {g.mu_r:g} ({g.source}); "
-                                     + ("real turf gives way, so roll is uncertain by tens of per cent"
+                                     f"bounce and roll on {g.label.lower()}: {g.describe()}; "
+                                     + ("turf varies from place to place and day to day, so the roll is uncertain "
+                                        "by tens of per cent"
                                         if main.run_out["total_m"] is not None else
                                         "the bounce also depends on the court's surface and the ball's wear"),
                                      "carry_m"))
