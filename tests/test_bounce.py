@@ -111,3 +111,11 @@ def test_the_serve_path_goes_on_after_the_bounce():
     f = r.detail.flights[0]
     assert f.path["x_m"].max() > f.carry_m + 1.0  # the arc after the bounce is in the path
     assert "bounces at" in flight.summary(r) and "the path after it is drawn" in flight.summary(r)
+
+
+def test_turf_under_another_ball_is_said_to_be_extrapolated():
+    r = run_study("flight", {"ball": "baseball", "ground": "turf_medium"})
+    assert r.detail.flights[0].run_out["total_m"] > r.detail.flights[0].carry_m
+    assert any(w.code == "turf_model_outside_golf" for w in r.warnings)
+    golf = run_study("flight", {"ball": "golf", "ground": "turf_medium"})
+    assert not any(w.code == "turf_model_outside_golf" for w in golf.warnings)

@@ -495,6 +495,11 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         warnings.extend(fit.warnings())
     if main.run_out is not None:
         g = GROUNDS[main.run_out["ground"]]
+        if g.crater_scale and setup.ball.key != "golf":
+            warnings.append(ModelWarning(
+                "turf_model_outside_golf",
+                f"the pitch-mark bounce on turf was fitted to golf balls (Penner 2002): for the "
+                f"{setup.ball.name.lower()} the bounce and roll are extrapolated", "carry_m"))
         warnings.append(ModelWarning("after_landing_model",
                                      f"bounce and roll on {g.label.lower()}: {g.describe()}; "
                                      + ("turf varies from place to place and day to day, so the roll is uncertain "
