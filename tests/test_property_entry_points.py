@@ -93,6 +93,31 @@ def test_the_rotor_command_exits_0_or_2(pairs):
     assert "Traceback" not in err.getvalue()
 
 
+SWEEP_TEXT = hs.one_of(
+    hs.builds(lambda k, a, b: f"{k}:{a}:{b}", hs.sampled_from(["speed_m_s", "elevation_deg", "spin_rpm", "height_m",
+                                                                "azimuth_deg", "spin", ""]), OPTION_VALUES, OPTION_VALUES),
+    hs.sampled_from(["elevation_deg:5:30", "speed_m_s:15:30", "spin_rpm:0:2000", "height_m:0:3"]),
+    hs.text(max_size=20))
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(hs.tuples(SWEEP_TEXT, SWEEP_TEXT, hs.sampled_from(["carry_m", "margin_m", "lateral_m"]),
+                 hs.sampled_from(["none", "free_kick", "custom"])))
+def test_the_flight_command_sweep_exits_0_or_2(case):
+    across, up, output, obstacle = case
+    args = ["flight", "--ball", "soccer", "--speed-m-s", "22", "--elevation-deg", "14", "--spin-rpm", "600",
+            "--obstacle", obstacle, "--sweep-across", across, "--sweep-up", up, "--sweep-points", "5",
+            "--sweep-output", output, "--json"]
+    out, err = io.StringIO(), io.StringIO()
+    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+        try:
+            code = main(args)
+        except SystemExit as exc:
+            code = exc.code
+    assert code in (0, 2), err.getvalue()
+    assert "Traceback" not in err.getvalue()
+
+
 @settings(max_examples=200, deadline=None)
 @given(hs.text(max_size=30) | hs.floats(allow_nan=False).map(repr) | hs.integers().map(str))
 def test_csv_neutralising_never_changes_a_number_and_always_disarms_a_formula(text):

@@ -22,7 +22,7 @@ import sys
 from liftcore.errors import InputError
 
 #: command name -> module under liftcore.cli
-COMMANDS = ("air", "flow", "rotor", "voyage", "flight", "run")
+COMMANDS = ("air", "flow", "rotor", "voyage", "flight", "fit", "run")
 #: One line per command for ``liftcore --help`` (the command's own module is imported only when
 #: it runs: a one-flight command does not pay for pandas, Pint and the rotor's data).
 COMMAND_HELP = {
@@ -31,6 +31,7 @@ COMMAND_HELP = {
     "rotor": "rotor sails on a ship: forces, spin power, net gain, best spin",
     "voyage": "yearly energy, fuel, CO2 and money saved by rotor sails on a trade",
     "flight": "flight of a spinning ball: carry, peak height, drift, landing",
+    "fit": "drag and lift of a ball fitted to its tracked flights (CSV)",
     "run": "run a scenario or comparison file (.toml)",
 }
 
