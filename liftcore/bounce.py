@@ -114,6 +114,9 @@ def inertia_factor(ball_key: str) -> float:
 
 #: Penner (2002): crater angle at Haake's reference impact, and that impact's speed and angle.
 CRATER_DEG, CRATER_SPEED_M_S, CRATER_ANGLE_DEG = 15.4, 18.6, 44.4
+#: Impacts the crater relations were fitted to, roughly (from memory): speed [m/s], angle below
+#: the horizontal [deg]. Landings outside are warned about.
+PENNER_SPEED_M_S, PENNER_ANGLE_DEG = (10.0, 30.0), (20.0, 60.0)
 #: Penner (2002): e(v_n) = a + b v_n + c v_n^2 up to ``PENNER_E_V_MAX``, ``PENNER_E_FAST`` above.
 PENNER_E = (0.510, -0.0375, 0.000903)
 PENNER_E_V_MAX, PENNER_E_FAST = 20.0, 0.120

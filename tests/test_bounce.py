@@ -119,3 +119,15 @@ def test_turf_under_another_ball_is_said_to_be_extrapolated():
     assert any(w.code == "turf_model_outside_golf" for w in r.warnings)
     golf = run_study("flight", {"ball": "golf", "ground": "turf_medium"})
     assert not any(w.code == "turf_model_outside_golf" for w in golf.warnings)
+
+
+def test_a_landing_outside_the_turf_data_is_said_to_be_extrapolated():
+    """A drive lands at about 28 m/s and 40° (inside); a low skimmer at 12° is outside (the range
+    from memory, as the module says)."""
+    drive = run_study("flight", {"ball": "golf", "speed_m_s": 70.0, "elevation_deg": 11.0, "spin_rpm": 2700.0,
+                                 "wind_speed_m_s": 0.0, "launch_height_m": 0.0})
+    assert not any(w.code == "turf_impact_outside_data" for w in drive.warnings)
+    low = run_study("flight", {"ball": "golf", "speed_m_s": 30.0, "elevation_deg": 2.0, "spin_rpm": 0.0,
+                               "wind_speed_m_s": 0.0, "launch_height_m": 0.5})
+    assert low.detail.flights[0].descent_angle_deg < bo.PENNER_ANGLE_DEG[0]
+    assert any(w.code == "turf_impact_outside_data" for w in low.warnings)

@@ -15,6 +15,7 @@ from liftcore import ballflight as bf
 from liftcore import units
 from liftcore.air import air_inputs, air_state, air_state_from_inputs
 from liftcore.balls import BALL_KEYS, BALLS, MODEL_KEYS, MODELS
+from liftcore import bounce
 from liftcore.bounce import BALL_GROUND, GROUND_KEYS, GROUNDS
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number, text
@@ -495,6 +496,14 @@ def run(values: dict, progress=None, extra=None) -> StudyResult:
         warnings.extend(fit.warnings())
     if main.run_out is not None:
         g = GROUNDS[main.run_out["ground"]]
+        b = main.run_out["bounce"]
+        (v0, v1), (a0, a1) = bounce.PENNER_SPEED_M_S, bounce.PENNER_ANGLE_DEG
+        if g.crater_scale and not (v0 <= b["speed_before_m_s"] <= v1 and a0 <= main.descent_angle_deg <= a1):
+            warnings.append(ModelWarning(
+                "turf_impact_outside_data",
+                f"the ball meets the turf at {b['speed_before_m_s']:.1f} m/s and {main.descent_angle_deg:.0f}°, "
+                f"outside the impacts the pitch-mark relations were fitted to (about {v0:g}-{v1:g} m/s "
+                f"and {a0:g}-{a1:g}°, from memory): the bounce is extrapolated", "carry_m"))
         if g.crater_scale and setup.ball.key != "golf":
             warnings.append(ModelWarning(
                 "turf_model_outside_golf",
