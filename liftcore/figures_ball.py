@@ -266,9 +266,28 @@ def sweep_heatmap(sw, labels: dict, output_label: str, output_kind: str, system:
                   searched: tuple | None = None) -> go.Figure:
     """Which launch gives the most? The output over the grid of two inputs, best point marked.
 
-    With obstacles (``sw.margins``), the launches that miss one are greyed over and the line
-    where the smallest margin is zero (clears / misses) is drawn; a map of the margin itself
-    uses a diverging scale centred on zero (blue clears, red misses)."""
+    Parameters
+    ----------
+    sw : liftcore.ballflight.SweepResult
+    labels : dict
+        Sweep input key -> (label, quantity kind).
+    output_label, output_kind : str
+        Name and quantity kind of the mapped result.
+    system : str
+        Display unit system.
+    searched : tuple, optional
+        A searched best point (x, y) to mark, core units.
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+
+    Notes
+    -----
+    With obstacles (``sw.margins``), the launches that miss one are faded under a white veil and
+    the line where the smallest margin is zero (clears / misses) is drawn; a map of the margin
+    itself uses a diverging scale symmetric about zero (blue clears, red misses).
+    """
     xl, xk = labels[sw.x_key]
     yl, yk = labels[sw.y_key]
     z = _u(sw.grid, output_kind, system)

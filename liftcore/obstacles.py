@@ -166,7 +166,18 @@ def check(path: dict, carry_m: float, lateral_m: float, o: Obstacle) -> dict:
 
 
 def gate_distances(obstacles) -> tuple:
-    """The distances a batch must keep crossings at for ``obstacles`` (walls, nets, goals)."""
+    """The distances a batch must keep crossings at for ``obstacles``.
+
+    Parameters
+    ----------
+    obstacles : sequence of Obstacle
+
+    Returns
+    -------
+    tuple of float
+        The downrange distance of every wall, net and goal, in order (landing areas need none:
+        their margin comes from the landing point). [m]
+    """
     return tuple(o.distance_m for o in obstacles if o.kind != "land")
 
 

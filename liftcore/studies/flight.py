@@ -369,7 +369,25 @@ def sweep_grid(values: dict) -> tuple:
 
 def launch_sweep(values: dict, progress=None) -> bf.SweepResult:
     """The launch sweep of the inputs: ``sweep_output`` over the grid of :func:`sweep_grid`,
-    every grid point a full flight (one batch), the best grid point marked."""
+    every grid point a full flight (one batch), the best grid point marked.
+
+    Parameters
+    ----------
+    values : dict
+        Complete, validated study inputs (core units).
+    progress : callable, optional
+        ``progress(fraction, text)`` while the batch flies.
+
+    Returns
+    -------
+    liftcore.ballflight.SweepResult
+        With the margins over the chosen obstacles at every grid point (none without one); the
+        best point among the launches that clear them when ``sweep_must_clear``.
+
+    Notes
+    -----
+    See :func:`liftcore.ballflight.sweep` and :func:`liftcore.obstacles.margin`.
+    """
     setup, _ = setup_from_values(values)
     x, xs, y, ys = sweep_grid(values)
     return bf.sweep(setup, launch_from_values(values), x, xs, y, ys, values["sweep_output"],
@@ -378,8 +396,28 @@ def launch_sweep(values: dict, progress=None) -> bf.SweepResult:
 
 
 def best_launch(values: dict) -> bf.OptimumResult:
-    """The best ``sweep_output`` within the sweep's two ranges (scipy Nelder-Mead from the best
-    grid point; see :func:`liftcore.ballflight.best_launch`)."""
+    """The best ``sweep_output`` within the sweep's two ranges.
+
+    Parameters
+    ----------
+    values : dict
+        Complete, validated study inputs (core units).
+
+    Returns
+    -------
+    liftcore.ballflight.OptimumResult
+        The searched launch; with an obstacle and ``sweep_must_clear``, only launches that clear
+        every obstacle count.
+
+    Notes
+    -----
+    scipy Nelder-Mead from the best point of a coarse grid (:func:`liftcore.ballflight.best_launch`).
+
+    References
+    ----------
+    .. [1] Nelder, J. A. & Mead, R. (1965), A simplex method for function minimization,
+       Comput. J. 7, 308-313.
+    """
     setup, _ = setup_from_values(values)
     x, xs, y, ys = sweep_grid(values)
     return bf.best_launch(setup, launch_from_values(values), (x, y), ((xs[0], xs[-1]), (ys[0], ys[-1])),
@@ -592,7 +630,20 @@ def _frame(data):
 
 
 def sweep_table(sw: bf.SweepResult, values: dict):
-    """The sweep as a long table: the two inputs and the mapped result at every grid point."""
+    """The sweep as a long table.
+
+    Parameters
+    ----------
+    sw : liftcore.ballflight.SweepResult
+    values : dict
+        The study inputs (for the mapped result's name).
+
+    Returns
+    -------
+    pandas.DataFrame
+        One row per grid point: the two inputs and the mapped result (core units), and with
+        obstacles ``margin_<name>_m`` per obstacle [m] and ``clears_all``.
+    """
     xx, yy = np.meshgrid(sw.x_values, sw.y_values)
     cols = {sw.x_key: xx.ravel(), sw.y_key: yy.ravel(), values["sweep_output"]: np.asarray(sw.grid).ravel()}
     for name, grid in sw.margins:
