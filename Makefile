@@ -20,11 +20,13 @@ run: $(STAMP)
 	$(BIN)/python -m streamlit run app.py --server.port $(PORT) --server.headless true \
 		--browser.gatherUsageStats false
 
+# Two workers: the browser tests spend most of their time waiting for the page, so a second
+# worker runs other tests meanwhile (each worker starts its own dashboard on a free port).
 test: $(STAMP)
-	$(BIN)/python -m pytest -q
+	$(BIN)/python -m pytest -q -n 2
 
 test-fast: $(STAMP)
-	$(BIN)/python -m pytest -q -m "not browser"
+	$(BIN)/python -m pytest -q -n 2 -m "not browser"
 
 bench: $(STAMP)
 	$(BIN)/python -m benchmarks

@@ -39,7 +39,9 @@ def app_url():
             pytest.fail(f"{CHROMIUM} is missing: CI must install Debian's chromium (see .ci/run)")
         pytest.skip(f"{CHROMIUM} not installed (apt-get install chromium)")
     port = _free_port()
-    log = open(ROOT / ".pytest_cache" / "streamlit-browser.log", "w") if (ROOT / ".pytest_cache").exists() else subprocess.DEVNULL
+    worker = os.environ.get("PYTEST_XDIST_WORKER", "main")  # one log per test worker
+    log = (open(ROOT / ".pytest_cache" / f"streamlit-browser-{worker}.log", "w")
+           if (ROOT / ".pytest_cache").exists() else subprocess.DEVNULL)
     proc = subprocess.Popen(
         [sys.executable, "-m", "streamlit", "run", str(ROOT / "app.py"), "--server.port", str(port),
          "--server.address", "127.0.0.1", "--server.headless", "true",
