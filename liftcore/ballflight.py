@@ -1014,14 +1014,14 @@ def _check_output(output: str, obstacles) -> None:
 
 
 def _batch(setup: FlightSetup, launch: Launch, output: str, obstacles=(), progress=None):
-    """(values of ``output``, {obstacle: margins}, BatchResult) of one batch of flights."""
+    """(values of ``output``, {obstacle: margins}, smallest margin or None, BatchResult) of one
+    batch of flights."""
     from liftcore.obstacles import batch_margins, gate_distances
 
     res = simulate(setup, launch, progress=progress, gates=gate_distances(obstacles))
     margins = batch_margins(obstacles, res) if obstacles else {}
-    if output == MARGIN_OUTPUT:
-        return np.minimum.reduce(list(margins.values())), margins, res
-    return res.output(output), margins, res
+    smallest = np.minimum.reduce(list(margins.values())) if margins else None
+    return (smallest if output == MARGIN_OUTPUT else res.output(output)), margins, smallest, res
 
 
 def sweep(setup: FlightSetup, base: Launch, x_key: str, x_values, y_key: str, y_values,
@@ -1066,12 +1066,12 @@ def sweep(setup: FlightSetup, base: Launch, x_key: str, x_values, y_key: str, y_
                                       f"40000 in all (got {xv.size} x {yv.size})")
     X, Yg = np.meshgrid(xv, yv)
     launch = _with(base, **{x_key: X.ravel(), y_key: Yg.ravel()}).validate()
-    flat, margins, res = _batch(setup, launch, output, obstacles, progress)
+    flat, margins, smallest, res = _batch(setup, launch, output, obstacles, progress)
     vals = flat.reshape(Yg.shape)
     score = np.where(np.isfinite(vals), vals if maximise else -vals, -np.inf)
     best_clears = False
-    if must_clear and margins:
-        clear = np.minimum.reduce(list(margins.values())).reshape(Yg.shape) >= 0
+    if must_clear and smallest is not None:
+        clear = smallest.reshape(Yg.shape) >= 0
         if clear.any():
             score = np.where(clear, score, -np.inf)
             best_clears = True
@@ -1150,10 +1150,10 @@ def best_launch(setup: FlightSetup, base: Launch, keys, bounds, output: str = "c
         pts = np.atleast_2d(points)
         evals += pts.shape[0]
         launch = _with(base, **{k: pts[:, i] for i, k in enumerate(keys)})
-        v, margins, _ = _batch(setup, launch, output, obstacles)
+        v, _, smallest, _ = _batch(setup, launch, output, obstacles)
         good = np.isfinite(v)
-        if must_clear and margins:
-            good &= np.minimum.reduce(list(margins.values())) >= 0
+        if must_clear and smallest is not None:
+            good &= smallest >= 0
         return np.where(good, v, -np.inf if maximise else np.inf)
 
     if start is None:

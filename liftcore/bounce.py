@@ -87,6 +87,11 @@ class Ground:
         return (f"rigid-ground impact (Brody 1984) with e {self.e:g}, friction {self.mu:g}, rolling "
                 f"resistance {self.mu_r:g} ({self.source})")
 
+    def restitution(self, v_n: float) -> float:
+        """Normal coefficient of restitution at the speed ``v_n`` into the surface [m s^-1]:
+        ``e`` on a rigid ground, ``e`` x :func:`turf_restitution` on turf. [-]"""
+        return self.e * turf_restitution(v_n) if self.crater_scale else self.e
+
 
 #: On turf mu_r is an effective value that also stands for the grass the ball ploughs through
 #: (fairway decelerations of a few m/s^2), which a rigid ground does not have.
@@ -219,7 +224,7 @@ def impact(v_t: float, v_n: float, r_w: float, ground: Ground, k: float) -> tupl
     # into the frame of the surface met: tangent (cos c, sin c), normal (-sin c, cos c)
     vt_p = v_t * cos_c - abs(v_n) * sin_c
     vn_p = v_t * sin_c + abs(v_n) * cos_c
-    e = ground.e * turf_restitution(vn_p) if ground.crater_scale else ground.e
+    e = ground.restitution(vn_p)
     u = vt_p + r_w
     grip = k * abs(u) / (1.0 + k)
     slide = ground.mu * (1.0 + e) * vn_p

@@ -157,8 +157,8 @@ def check(path: dict, carry_m: float, lateral_m: float, o: Obstacle) -> dict:
     if o.kind == "land":
         m = float(margin(o, carry_m, lateral_m))
         return {**out, "clears": bool(m >= 0), "margin_m": m, "height_m": 0.0, "lateral_m": float(lateral_m)}
-    if carry_m < o.distance_m or x.size < 2:
-        return {**out, "clears": False, "margin_m": float(carry_m - o.distance_m), "height_m": None,
+    if carry_m < o.distance_m or x.size < 2:  # never gets there: margin() says by how much
+        return {**out, "clears": False, "margin_m": float(margin(o, carry_m, lateral_m)), "height_m": None,
                 "lateral_m": None, "lands_short": True}
     zh, yh = float(np.interp(o.distance_m, x, z)), float(np.interp(o.distance_m, x, y))
     m = float(margin(o, carry_m, lateral_m, zh, yh))

@@ -60,9 +60,7 @@ def add_parser(sub):
                    help="after the first landing: bounces and roll to rest on this ground (default: the "
                         "ball's usual one, medium turf for golf, a hard court for court balls; none for "
                         "the others)")
-    g.add_argument("--obstacle", choices=("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis",
-                                          "custom"),
-                   default="none", help="check a preset from the governing bodies' rules (or your own wall, "
+    g.add_argument("--obstacle", choices=INPUTS.field("obstacle").choices, default="none", help="check a preset from the governing bodies' rules (or your own wall, "
                                         "custom): margins in 'obstacles'")
     add_options(g, INPUTS, WALL_OPTIONS)
     g.add_argument("--goal-distance-m", type=float, default=20.0,
@@ -176,8 +174,9 @@ def _sweep_values(args) -> dict:
         raise InputError("--sweep-across", "a launch sweep needs both --sweep-across and --sweep-up")
     out = {"sweep_in_report": True, "sweep_goal": "min" if args.sweep_lowest else "max",
            "sweep_must_clear": not args.sweep_any, **option_values(args, SWEEP_OPTIONS)}
-    for axis, option in (("sweep_x", "--sweep-across"), ("sweep_y", "--sweep-up")):
-        key, lo, hi = _sweep_range(option, getattr(args, axis.replace("_x", "_across").replace("_y", "_up")))
+    for axis, option, text in (("sweep_x", "--sweep-across", args.sweep_across),
+                               ("sweep_y", "--sweep-up", args.sweep_up)):
+        key, lo, hi = _sweep_range(option, text)
         out.update({axis: key, f"sweep_{key}_from": lo, f"sweep_{key}_to": hi})
     return out
 

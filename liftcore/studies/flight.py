@@ -19,6 +19,7 @@ from liftcore import bounce
 from liftcore.bounce import BALL_GROUND, GROUND_KEYS, GROUNDS
 from liftcore.errors import InputError
 from liftcore.inputs import InputSpec, choice, flag, integer, number, text
+from liftcore.obstacles import PRESET_LABELS, PRESETS
 from liftcore.studies import Charts, Headline, StudyResult, Tables, table_in_units
 from liftcore.validity import ModelWarning, merge
 
@@ -68,11 +69,7 @@ INPUTS = InputSpec(KIND, (
                 "2002), on a hard court a rigid-ground impact (Brody 1984; Cross 2002); golf on medium "
                 "turf and court balls on a hard court by default. Firmness: soft, medium or firm turf. "
                 "The values are from memory or assumed, except the tennis rebound rule (see Sources)."),
-    choice("obstacle", "Does it clear?", ("none", "free_kick", "tennis_serve", "volleyball_serve", "table_tennis",
-                                          "custom"), default="none",
-           labels=("No obstacle", "Free kick: wall and goal", "Tennis serve: net and service boxes",
-                   "Volleyball serve: net and court", "Table tennis: net and far half", "A wall of my own"),
-           section="Obstacles",
+    choice("obstacle", "Does it clear?", PRESETS, default="none", labels=PRESET_LABELS, section="Obstacles",
            help="Obstacles and targets from the governing bodies' rules (cited on the page), drawn on the side "
                 "and top views with the margin by which the ball clears or misses each."),
     number("goal_distance_m", "Distance to the goal line", "distance", 20.0, 10.15, 60.0, section="Obstacles",
